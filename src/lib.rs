@@ -1,0 +1,4 @@
+//! portwright: design and check cold-gas reaction-control port layouts.
+#![deny(missing_docs)]
+
+pub mod gas;

@@ -1,5 +1,8 @@
 //! portwright: design and check cold-gas reaction-control port layouts.
 #![deny(missing_docs)]
 
+pub mod airframe;
 pub mod gas;
+pub mod mass;
 pub mod model;
+pub mod units;

@@ -1,0 +1,6 @@
+//! Airframe geometry shared by mass properties, exports and constraint checks.
+
+pub mod nose;
+pub mod placement;
+
+pub use nose::profile_radius;

@@ -3,6 +3,7 @@
 
 pub mod airframe;
 pub mod gas;
+pub mod layout;
 pub mod mass;
 pub mod model;
 pub mod units;

@@ -1,0 +1,98 @@
+//! Findings in plain words: what a builder should notice in the numbers.
+//!
+//! Thresholds for "only just enough" (margin below 1.5) and "far more than
+//! needed" (margin above 8) are common practice, no source: they flag layouts
+//! worth a second look, not failures.
+
+use super::{GasBudget, StateReport};
+use crate::model::Design;
+
+/// Margin below which an axis is called tight.
+const TIGHT_MARGIN: f64 = 1.5;
+/// Margin above which an axis is called oversized.
+const GENEROUS_MARGIN: f64 = 8.0;
+
+/// Plain-words findings for the report.
+pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec<String> {
+    let mut out = Vec::new();
+    for s in states {
+        for a in &s.authority {
+            if !a.margin.is_finite() {
+                continue;
+            }
+            if a.margin < 1.0 {
+                out.push(format!(
+                    "{} authority at {} is only {:.2} of what is required: more thrust or a longer lever arm is needed",
+                    a.axis, s.name, a.margin
+                ));
+            } else if a.margin < TIGHT_MARGIN {
+                out.push(format!("{} margin at {} is only {:.2}", a.axis, s.name, a.margin));
+            } else if a.margin > GENEROUS_MARGIN {
+                out.push(format!(
+                    "{} authority at {} is {:.0} times the requirement: smaller {} holes would save gas",
+                    a.axis, s.name, a.margin, a.axis
+                ));
+            }
+        }
+        if s.ports_within_5_percent < design.ports.len() {
+            out.push(format!(
+                "at {}, up to {} valves can fire together before each port's thrust falls by more than 5 % (supply droop)",
+                s.name, s.ports_within_5_percent
+            ));
+        }
+        for p in &s.ports {
+            if p.strongly_overexpanded {
+                out.push(format!(
+                    "port `{}` is strongly over-expanded at {} (exit pressure below 0.4 of ambient): the flow may separate; a smaller exit would do better",
+                    p.name, s.name
+                ));
+            }
+        }
+    }
+    if let (Some(first), Some(last)) = (states.first(), states.last()) {
+        out.push(format!(
+            "roll-to-pitch authority ratio is {:.1} at {} and {:.1} at {}",
+            first.roll_to_pitch_ratio, first.name, last.roll_to_pitch_ratio, last.name
+        ));
+    }
+    let hold = design.requirements.hold_time_s;
+    if hold > 0.0 && gas.firing_time_all_ports_s.is_finite() {
+        let need = gas_for_hold(design, states);
+        if need > gas.usable_adiabatic_kg {
+            out.push(format!(
+                "holding against the disturbances for {hold:.0} s needs about {:.1} g of gas, more than the {:.1} g usable (adiabatic bound)",
+                need * 1e3,
+                gas.usable_adiabatic_kg * 1e3
+            ));
+        }
+    }
+    out.extend(gas.warnings.iter().cloned());
+    out
+}
+
+/// Gas to hold the worst state's disturbance torques for the hold time, firing the
+/// most efficient port about each axis in proportion (a first estimate; the
+/// allocator's manoeuvre budget is exact).
+fn gas_for_hold(design: &Design, states: &[StateReport]) -> f64 {
+    let mut worst = 0.0f64;
+    for s in states {
+        let mut rate = 0.0;
+        for k in 0..3 {
+            let need = s.required.from_disturbance_n_m[k];
+            if need <= 0.0 {
+                continue;
+            }
+            // Torque per kg/s of the best port about this axis (either sense).
+            let best = s
+                .ports
+                .iter()
+                .map(|p| p.torque_n_m[k].abs() / p.mass_flow_kg_s.max(f64::MIN_POSITIVE))
+                .fold(0.0, f64::max);
+            if best > 0.0 {
+                rate += need / best;
+            }
+        }
+        worst = worst.max(rate);
+    }
+    worst * design.requirements.hold_time_s
+}

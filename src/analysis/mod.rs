@@ -1,0 +1,203 @@
+//! The `analyze` report as plain data: everything the terminal table and the
+//! JSON output show, computed from a [`Design`].
+//!
+//! For each flight state: the atmosphere at its altitude, the mass properties
+//! with the gas then in the tank, each port's operating point through
+//! regulator → valve → nozzle, its force and torque about that state's CG, the
+//! per-axis authority against the requirements, and the supply droop when
+//! several valves fire together. Once for the design: the gas inventory and
+//! usable gas with isothermal and adiabatic bounds, impulse and firing time.
+
+pub mod authority;
+pub mod feed;
+pub mod findings;
+
+use crate::mass::MassSummary;
+use crate::model::{Design, MotorCondition};
+use authority::{axis_authority, simple_sums, AxisAuthority, Required};
+use nalgebra::Vector3;
+use serde::Serialize;
+use thiserror::Error;
+
+pub use feed::{GasBudget, PortReport};
+
+/// Why a design could not be analysed.
+#[derive(Debug, Error)]
+pub enum AnalysisError {
+    /// The gas model failed (out of range, no convergence).
+    #[error("gas model: {0}")]
+    Gas(String),
+    /// A flow solution failed for a port.
+    #[error("port `{port}` at state `{state}`: {reason}")]
+    Flow {
+        /// Port name.
+        port: String,
+        /// Flight state.
+        state: String,
+        /// What went wrong.
+        reason: String,
+    },
+    /// The standard atmosphere is not defined at the altitude.
+    #[error("state `{state}`: {reason}")]
+    Atmosphere {
+        /// Flight state.
+        state: String,
+        /// What went wrong.
+        reason: String,
+    },
+}
+
+/// The usual cautions for high-pressure gas work, shown in every report.
+pub const CAUTIONS: [&str; 5] = [
+    "Use only tanks, regulators, valves and fittings rated for the pressures involved, with relief and burst protection on every pressurised volume.",
+    "Wear eye protection when filling, testing or handling a charged system; keep people clear of charged tanks.",
+    "Leak-check every joint before flight and after any change.",
+    "Follow your range's and launch site's safety code and your local pressure-equipment codes; they and licensed practice override these estimates.",
+    "These figures are design estimates: confirm thrust and gas use on a test stand before relying on them.",
+];
+
+/// The supply droop when k equal ports fire together.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct DroopRow {
+    /// Number of valves open.
+    pub open_ports: usize,
+    /// Manifold pressure, Pa absolute.
+    pub manifold_pressure_pa: f64,
+    /// Thrust of each port, N.
+    pub thrust_per_port_n: f64,
+    /// 1 − thrust(k)/thrust(1).
+    pub thrust_drop_fraction: f64,
+}
+
+/// One flight state's results.
+#[derive(Debug, Clone, Serialize)]
+pub struct StateReport {
+    /// Name.
+    pub name: String,
+    /// Altitude, m.
+    pub altitude_m: f64,
+    /// Ambient pressure (US Standard Atmosphere 1976), Pa.
+    pub ambient_pressure_pa: f64,
+    /// Motor condition.
+    pub motor: MotorCondition,
+    /// Regulated pressure at the manifold with one valve open, Pa absolute.
+    pub regulated_pressure_pa: f64,
+    /// Gas in the tank, kg.
+    pub gas_in_tank_kg: f64,
+    /// Mass properties.
+    pub mass: MassSummary,
+    /// Each port alone at full thrust.
+    pub ports: Vec<PortReport>,
+    /// Torque needed per axis.
+    pub required: Required,
+    /// Per-axis authority from the simple sums of each port's contribution.
+    pub authority: [AxisAuthority; 3],
+    /// Roll authority over pitch authority (angular acceleration, weaker senses).
+    pub roll_to_pitch_ratio: f64,
+    /// Per-port thrust with k equal ports open (the port with the largest flow).
+    pub droop: Vec<DroopRow>,
+    /// How many ports can fire together before each one's thrust falls by more than 5 %.
+    pub ports_within_5_percent: usize,
+}
+
+/// The whole report.
+#[derive(Debug, Clone, Serialize)]
+pub struct Analysis {
+    /// Design name.
+    pub layout: String,
+    /// How the file was read and what the models assume.
+    pub assumptions: Vec<String>,
+    /// Gas inventory and budget.
+    pub gas: GasBudget,
+    /// Per flight state.
+    pub states: Vec<StateReport>,
+    /// Plain-words findings.
+    pub findings: Vec<String>,
+    /// Safety cautions.
+    pub cautions: Vec<&'static str>,
+}
+
+/// Torque needed per axis at a state: inertia × wanted acceleration, plus the roll
+/// disturbance, plus (while burning) the motor's thrust misalignment acting at the
+/// motor nozzle's distance from the CG.
+pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorCondition) -> Required {
+    let r = &design.requirements;
+    let i = mass.inertia_diagonal();
+    let misalignment = if motor == MotorCondition::Burning {
+        let nozzle_station = design.motor.fore_station_m + design.motor.length_m;
+        r.motor_thrust_n * r.thrust_misalignment_rad.sin() * (nozzle_station - mass.cg_station_m).abs()
+    } else {
+        0.0
+    };
+    Required {
+        from_acceleration_n_m: [i[0] * r.roll_accel_rad_s2, i[1] * r.pitch_accel_rad_s2, i[2] * r.yaw_accel_rad_s2],
+        from_disturbance_n_m: [r.roll_disturbance_n_m, misalignment, misalignment],
+    }
+}
+
+/// Force and torque about `cg` of each port at the given thrusts.
+pub fn port_wrenches(design: &Design, cg: Vector3<f64>, thrusts_n: &[f64]) -> Vec<(Vector3<f64>, Vector3<f64>)> {
+    let radius = design.airframe.outer_radius_m();
+    design
+        .ports
+        .iter()
+        .zip(thrusts_n)
+        .map(|(p, &t)| {
+            let f = p.thrust_direction() * t;
+            (f, (p.position(radius) - cg).cross(&f))
+        })
+        .collect()
+}
+
+/// Analyse a design.
+pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
+    let budget = feed::gas_budget(design)?;
+    let mut states = Vec::with_capacity(design.states.len());
+    for state in &design.states {
+        let ambient = crate::atmosphere::standard_atmosphere(state.altitude_m).map_err(|e| AnalysisError::Atmosphere {
+            state: state.name.clone(),
+            reason: e.to_string(),
+        })?;
+        let gas_in_tank = budget.residual_kg + state.gas_remaining * budget.usable_isothermal_kg;
+        let mass = crate::mass::vehicle::state_summary(design, state, gas_in_tank);
+        let at = feed::ports_at(design, &budget, &state.name, ambient.pressure_pa)?;
+        let thrusts: Vec<f64> = at.ports.iter().map(|p| p.thrust_n).collect();
+        let wrenches = port_wrenches(design, mass.cg(), &thrusts);
+        let mut ports = at.ports;
+        for (p, (f, t)) in ports.iter_mut().zip(&wrenches) {
+            p.force_n = [f.x, f.y, f.z];
+            p.torque_n_m = [t.x, t.y, t.z];
+        }
+        let torques: Vec<_> = wrenches.iter().map(|w| w.1).collect();
+        let (pos, neg) = simple_sums(&torques);
+        let required = required_torques(design, &mass, state.motor);
+        let authority = axis_authority(pos, neg, mass.inertia_diagonal(), &required);
+        let roll_to_pitch_ratio = authority[0].angular_accel_rad_s2 / authority[1].angular_accel_rad_s2;
+        states.push(StateReport {
+            name: state.name.clone(),
+            altitude_m: state.altitude_m,
+            ambient_pressure_pa: ambient.pressure_pa,
+            motor: state.motor,
+            regulated_pressure_pa: at.regulated_pressure_pa,
+            gas_in_tank_kg: gas_in_tank,
+            mass,
+            ports,
+            required,
+            authority,
+            roll_to_pitch_ratio,
+            droop: at.droop,
+            ports_within_5_percent: at.ports_within_5_percent,
+        });
+    }
+    let mut assumptions = design.readings.clone();
+    assumptions.extend(feed::assumptions(design, &budget));
+    let findings = findings::findings(design, &budget, &states);
+    Ok(Analysis {
+        layout: design.name.clone(),
+        assumptions,
+        gas: budget,
+        states,
+        findings,
+        cautions: CAUTIONS.to_vec(),
+    })
+}

@@ -1,4 +1,5 @@
 //! portwright: design and check cold-gas reaction-control port layouts.
 #![deny(missing_docs)]
 
+pub mod atmosphere;
 pub mod gas;

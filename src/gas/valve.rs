@@ -266,7 +266,10 @@ mod tests {
         let cv = 62.65206386995215 * CV_PER_KV;
         let fp = 0.8914669750597012;
         let bare = CvValve::new(cv, 0.60).unwrap();
-        let fitted = CvValve::new(cv / fp, 0.60).unwrap().with_piping_factor(fp).unwrap();
+        let fitted = CvValve::new(cv / fp, 0.60)
+            .unwrap()
+            .with_piping_factor(fp)
+            .unwrap();
         let a = bare.flow(680e3, 310e3, RHO1_CO2, GAMMA_CO2).unwrap();
         let b = fitted.flow(680e3, 310e3, RHO1_CO2, GAMMA_CO2).unwrap();
         assert_relative_eq!(a.mass_flow_kg_s, b.mass_flow_kg_s, max_relative = 1e-14);

@@ -424,8 +424,7 @@ pub struct SimultaneousFiring {
     /// The thrust drop accepted, as a fraction.
     pub allowed_thrust_drop: f64,
     /// Largest k whose per-port thrust stays within the accepted drop (every
-    /// smaller k does too). At least 1 unless a single port already fails,
-    /// which cannot happen since k = 1 is the reference.
+    /// smaller k does too); always at least 1, since k = 1 is the reference.
     pub ports_within_limit: usize,
 }
 

@@ -2,6 +2,7 @@
 #![deny(missing_docs)]
 
 pub mod airframe;
+pub mod atmosphere;
 pub mod gas;
 pub mod layout;
 pub mod mass;

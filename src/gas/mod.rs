@@ -1,5 +1,10 @@
 //! Gas: equation of state, tank inventory and blowdown, flow through valve and nozzle.
 
+pub mod chain;
+pub mod isentropic;
+pub mod nozzle;
 pub mod species;
+pub mod valve;
 
+pub use isentropic::{FlowError, FlowTolerances};
 pub use species::{Gas, IdealGas};

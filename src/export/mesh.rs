@@ -276,14 +276,14 @@ impl RevolveFrame {
     pub fn about(origin: Point3<f64>, axis: Vector3<f64>) -> Self {
         let axis = axis.normalize();
         // Pick the coordinate axis least aligned with `axis` to build a perpendicular.
-        let helper = if axis.x.abs() <= axis.y.abs() && axis.x.abs() <= axis.z.abs() {
+        let pick = if axis.x.abs() <= axis.y.abs() && axis.x.abs() <= axis.z.abs() {
             Vector3::x()
         } else if axis.y.abs() <= axis.z.abs() {
             Vector3::y()
         } else {
             Vector3::z()
         };
-        let reference = (helper - axis * axis.dot(&helper)).normalize();
+        let reference = (pick - axis * axis.dot(&pick)).normalize();
         Self {
             origin,
             axis,

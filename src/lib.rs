@@ -3,6 +3,7 @@
 
 pub mod airframe;
 pub mod atmosphere;
+pub mod export;
 pub mod gas;
 pub mod layout;
 pub mod mass;

@@ -13,8 +13,11 @@ use crate::model::NoseShape;
 pub fn profile_radius(shape: NoseShape, length_m: f64, base_radius_m: f64, x_m: f64) -> f64 {
     let l = length_m;
     let r = base_radius_m;
+    if l.is_nan() || l <= 0.0 {
+        return r;
+    }
     let x = x_m.clamp(0.0, l);
-    match shape {
+    let radius = match shape {
         NoseShape::Conical => r * x / l,
         NoseShape::Ogive => {
             let rho = (r * r + l * l) / (2.0 * r);
@@ -26,7 +29,8 @@ pub fn profile_radius(shape: NoseShape, length_m: f64, base_radius_m: f64, x_m: 
             let xi = x / l;
             r * (2.0 * xi - xi * xi)
         }
-    }
+    };
+    radius.clamp(0.0, r)
 }
 
 #[cfg(test)]

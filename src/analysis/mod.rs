@@ -154,13 +154,13 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     let budget = feed::gas_budget(design)?;
     let mut states = Vec::with_capacity(design.states.len());
     for state in &design.states {
-        let ambient = crate::atmosphere::standard_atmosphere(state.altitude_m).map_err(|e| AnalysisError::Atmosphere {
+        let ambient = crate::atmosphere::at_geometric_altitude(state.altitude_m).map_err(|e| AnalysisError::Atmosphere {
             state: state.name.clone(),
             reason: e.to_string(),
         })?;
         let gas_in_tank = budget.residual_kg + state.gas_remaining * budget.usable_isothermal_kg;
         let mass = crate::mass::vehicle::state_summary(design, state, gas_in_tank);
-        let at = feed::ports_at(design, &budget, &state.name, ambient.pressure_pa)?;
+        let at = feed::ports_at(design, &state.name, ambient.pressure_pa)?;
         let thrusts: Vec<f64> = at.ports.iter().map(|p| p.thrust_n).collect();
         let wrenches = port_wrenches(design, mass.cg(), &thrusts);
         let mut ports = at.ports;

@@ -195,6 +195,8 @@ impl PortChain {
 /// How much the regulator and line can deliver to the manifold.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum SupplyCapacity {
+    /// No limit: the manifold stays at the set pressure whatever the flow.
+    Unlimited,
     /// A restriction between regulator outlet (at set pressure) and manifold,
     /// described by a Cv with the IEC 60534-2-1 gas equations.
     Restriction(CvValve),
@@ -257,6 +259,7 @@ impl SharedSupply {
     /// Flow the supply delivers when the manifold sits at `manifold_pa`.
     fn delivered(&self, manifold_pa: f64, ctx: &FlowContext<'_>) -> Result<f64, FlowError> {
         match self.capacity {
+            SupplyCapacity::Unlimited => Ok(f64::INFINITY),
             SupplyCapacity::Restriction(v) => {
                 let rho = density(ctx.density, self.set_pressure_pa, self.temperature_k)?;
                 Ok(
@@ -316,7 +319,7 @@ impl SharedSupply {
         check_gas(&ctx.gas)?;
         let pa = non_negative("ambient pressure", ctx.ambient_pa)?;
         let ps = self.set_pressure_pa;
-        if no_ports || ps <= pa {
+        if no_ports || ps <= pa || self.capacity == SupplyCapacity::Unlimited {
             return Ok(ps);
         }
         let tol = &ctx.tolerances;

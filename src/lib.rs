@@ -2,10 +2,12 @@
 #![deny(missing_docs)]
 
 pub mod airframe;
+pub mod analysis;
 pub mod atmosphere;
 pub mod export;
 pub mod gas;
 pub mod layout;
 pub mod mass;
 pub mod model;
+pub mod report;
 pub mod units;

@@ -51,9 +51,9 @@ pub fn render_text(a: &Analysis) -> String {
     if g.liquid_mass_kg > 0.0 {
         t.add_row(vec![Cell::new("liquid at fill"), Cell::new(format!("{:.1} g, {:.0} % of the volume", g.liquid_mass_kg * 1e3, g.liquid_volume_fraction * 100.0))]);
     }
-    t.add_row(vec![Cell::new("inventory"), Cell::new(format!("{:.1} g (± {:.1} %)", g.inventory_kg * 1e3, g.uncertainty_fraction * 100.0))]);
+    t.add_row(vec![Cell::new("inventory"), Cell::new(format!("{:.1} g (± {:.1} g)", g.inventory_kg * 1e3, g.inventory_uncertainty_kg * 1e3))]);
     t.add_row(vec![Cell::new("regulator stops at tank pressure"), Cell::new(bar_psi(g.end_pressure_pa))]);
-    t.add_row(vec![Cell::new("usable, isothermal blowdown"), Cell::new(format!("{:.1} g", g.usable_isothermal_kg * 1e3))]);
+    t.add_row(vec![Cell::new("usable, isothermal blowdown"), Cell::new(format!("{:.1} g (± {:.1} %)", g.usable_isothermal_kg * 1e3, g.uncertainty_fraction * 100.0))]);
     t.add_row(vec![Cell::new("usable, adiabatic blowdown"), Cell::new(format!("{:.1} g (tank ends at {:.1} °C)", g.usable_adiabatic_kg * 1e3, g.adiabatic_end_temperature_k - 273.15))]);
     t.add_row(vec![Cell::new("total impulse of usable gas"), Cell::new(format!("{:.1} to {:.1} N s", g.total_impulse_adiabatic_n_s, g.total_impulse_isothermal_n_s))]);
     t.add_row(vec![Cell::new("all ports open together"), Cell::new(format!("{:.1} to {:.1} s", g.firing_time_all_ports_adiabatic_s, g.firing_time_all_ports_s))]);

@@ -57,7 +57,9 @@ pub struct GasBudget {
     pub adiabatic_end_temperature_k: f64,
     /// Gas left in the tank at the end (isothermal), kg.
     pub residual_kg: f64,
-    /// Relative uncertainty of the inventory from the equation of state.
+    /// Uncertainty of the inventory from the equation of state, kg (zero when filled by mass).
+    pub inventory_uncertainty_kg: f64,
+    /// Relative uncertainty of the usable gas (isothermal bound) from the equation of state.
     pub uncertainty_fraction: f64,
     /// Total impulse of the usable gas, isothermal bound, N·s.
     pub total_impulse_isothermal_n_s: f64,
@@ -341,7 +343,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
     let isp = thrust / (flow * STANDARD_GRAVITY_M_S2);
     let iso = usable.isothermal.usable_mass_kg;
     let adi = usable.adiabatic.usable_mass_kg;
-    let uncertainty = if inv.mass_kg > 0.0 { inv.mass_uncertainty_kg / inv.mass_kg } else { 0.0 };
+    let uncertainty = if iso > 0.0 { usable.isothermal.usable_mass_uncertainty_kg / iso } else { 0.0 };
     Ok(GasBudget {
         gas: feed.gas.name(),
         tank_volume_m3: t.volume_m3,
@@ -356,6 +358,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         usable_adiabatic_kg: adi,
         adiabatic_end_temperature_k: usable.adiabatic.end_temperature_k,
         residual_kg: (inv.mass_kg - iso).max(0.0),
+        inventory_uncertainty_kg: inv.mass_uncertainty_kg,
         uncertainty_fraction: uncertainty,
         total_impulse_isothermal_n_s: iso * isp * STANDARD_GRAVITY_M_S2,
         total_impulse_adiabatic_n_s: adi * isp * STANDARD_GRAVITY_M_S2,
@@ -381,7 +384,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
 pub fn assumptions(design: &Design, budget: &GasBudget) -> Vec<String> {
     let mut a = vec![
         format!(
-            "tank inventory from the Peng–Robinson equation of state with volume translation; expected uncertainty ±{:.1} % of the inventory",
+            "tank inventory from the Peng–Robinson equation of state with volume translation; expected uncertainty of the usable gas ±{:.1} %",
             budget.uncertainty_fraction * 100.0
         ),
         "usable gas runs from fill to the tank pressure at which the regulator drops out (set pressure + dropout margin); isothermal and adiabatic blowdown bound it".to_string(),

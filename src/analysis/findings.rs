@@ -36,8 +36,8 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
         }
         if s.ports_within_5_percent < design.ports.len() {
             out.push(format!(
-                "at {}, up to {} valves can fire together before each port's thrust falls by more than 5 % (supply droop)",
-                s.name, s.ports_within_5_percent
+                "at {}, only {} of {} valves can fire together before each port's thrust falls by more than 5 % (supply droop): a larger regulator or line would help",
+                s.name, s.ports_within_5_percent, design.ports.len()
             ));
         }
         for p in &s.ports {
@@ -60,7 +60,7 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
         let need = gas_for_hold(design, states);
         if need > gas.usable_adiabatic_kg {
             out.push(format!(
-                "holding against the disturbances for {hold:.0} s needs about {:.1} g of gas, more than the {:.1} g usable (adiabatic bound)",
+                "holding against the roll disturbance for {hold:.0} s needs about {:.1} g of gas, more than the {:.1} g usable (adiabatic bound)",
                 need * 1e3,
                 gas.usable_adiabatic_kg * 1e3
             ));
@@ -70,29 +70,23 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
     out
 }
 
-/// Gas to hold the worst state's disturbance torques for the hold time, firing the
-/// most efficient port about each axis in proportion (a first estimate; the
-/// allocator's manoeuvre budget is exact).
+/// Gas to hold the worst state's roll disturbance for the hold time, firing the
+/// most efficient port about roll (a first estimate; the allocator's manoeuvre
+/// budget is exact). The motor's misalignment lasts only the burn, so the
+/// authority margin covers it rather than the hold budget.
 fn gas_for_hold(design: &Design, states: &[StateReport]) -> f64 {
     let mut worst = 0.0f64;
     for s in states {
-        let mut rate = 0.0;
-        for k in 0..3 {
-            let need = s.required.from_disturbance_n_m[k];
-            if need <= 0.0 {
-                continue;
-            }
-            // Torque per kg/s of the best port about this axis (either sense).
-            let best = s
-                .ports
-                .iter()
-                .map(|p| p.torque_n_m[k].abs() / p.mass_flow_kg_s.max(f64::MIN_POSITIVE))
-                .fold(0.0, f64::max);
-            if best > 0.0 {
-                rate += need / best;
-            }
+        let need = s.required.from_disturbance_n_m[0];
+        // Roll torque per kg/s of the best port (either sense).
+        let best = s
+            .ports
+            .iter()
+            .map(|p| p.torque_n_m[0].abs() / p.mass_flow_kg_s.max(f64::MIN_POSITIVE))
+            .fold(0.0, f64::max);
+        if need > 0.0 && best > 0.0 {
+            worst = worst.max(need / best);
         }
-        worst = worst.max(rate);
     }
     worst * design.requirements.hold_time_s
 }

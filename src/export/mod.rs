@@ -15,7 +15,6 @@ pub mod mesh;
 pub mod stl;
 pub mod template;
 
-use crate::model::NoseShape;
 use mesh::{MeshDefect, PlateError, ProfileError};
 use thiserror::Error;
 

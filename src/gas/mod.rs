@@ -1,6 +1,8 @@
 //! Gas: equation of state, tank inventory and blowdown, flow through valve and nozzle.
 
 pub mod chain;
+pub mod eos;
+pub mod tank;
 pub mod isentropic;
 pub mod nozzle;
 pub mod species;

@@ -1,0 +1,103 @@
+//! The real binary on the committed layouts, in a temporary folder.
+
+use std::path::Path;
+use std::process::Command;
+
+fn portwright() -> Command {
+    Command::new(env!("CARGO_BIN_EXE_portwright"))
+}
+
+fn run_ok(args: &[&str]) -> String {
+    let out = portwright().args(args).output().expect("binary runs");
+    assert!(out.status.success(), "portwright {args:?} failed:\n{}", String::from_utf8_lossy(&out.stderr));
+    String::from_utf8(out.stdout).expect("utf-8 output")
+}
+
+#[test]
+fn analyze_prints_the_report_for_both_demos() {
+    for layout in ["layouts/heron-54.toml", "layouts/osprey-98.toml"] {
+        let text = run_ok(&["analyze", layout]);
+        for heading in ["Safety", "Gas (", "Mass properties", "State `liftoff`", "State `burnout`", "Findings"] {
+            assert!(text.contains(heading), "{layout}: report lacks `{heading}`:\n{text}");
+        }
+        assert!(text.contains("eye protection"), "cautions missing");
+    }
+}
+
+#[test]
+fn analyze_json_holds_the_documented_fields() {
+    for layout in ["layouts/heron-54.toml", "layouts/osprey-98.toml"] {
+        let text = run_ok(&["analyze", layout, "--json"]);
+        let v: serde_json::Value = serde_json::from_str(&text).expect("valid JSON");
+        let states = v["states"].as_array().expect("states");
+        assert!(states.len() >= 2);
+        for s in states {
+            for f in ["cg_station_m", "mass_kg", "ixx_kg_m2", "iyy_kg_m2"] {
+                assert!(s["mass"][f].as_f64().is_some_and(|x| x > 0.0), "{layout}: mass.{f}");
+            }
+            for p in s["ports"].as_array().expect("ports") {
+                assert!(p["thrust_n"].as_f64().is_some_and(|x| x > 0.0), "{layout}: thrust_n");
+                assert!(p["mass_flow_kg_s"].as_f64().is_some_and(|x| x > 0.0), "{layout}: mass_flow_kg_s");
+                assert!(p["specific_impulse_s"].as_f64().is_some_and(|x| x > 20.0), "{layout}: Isp");
+                assert_eq!(p["torque_n_m"].as_array().map(|a| a.len()), Some(3));
+            }
+            assert_eq!(s["authority"].as_array().map(|a| a.len()), Some(3));
+            assert!(s["roll_to_pitch_ratio"].as_f64().is_some());
+        }
+        let gas = &v["gas"];
+        for f in ["inventory_kg", "usable_isothermal_kg", "usable_adiabatic_kg", "total_impulse_isothermal_n_s"] {
+            assert!(gas[f].as_f64().is_some_and(|x| x > 0.0), "{layout}: gas.{f}");
+        }
+        // The adiabatic bound never exceeds the isothermal one.
+        assert!(gas["usable_adiabatic_kg"].as_f64() <= gas["usable_isothermal_kg"].as_f64());
+        assert!(!v["cautions"].as_array().expect("cautions").is_empty());
+    }
+}
+
+#[test]
+fn bad_layout_exits_nonzero_naming_file_line_and_field() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("broken.toml");
+    let text = std::fs::read_to_string("layouts/heron-54.toml").unwrap().replacen("outer_diameter = \"54 mm\"", "outer_diameter = \"54 kg\"", 1);
+    std::fs::write(&path, &text).unwrap();
+    let out = portwright().args(["analyze", path.to_str().unwrap()]).output().unwrap();
+    assert!(!out.status.success());
+    let err = String::from_utf8_lossy(&out.stderr);
+    let line = text.lines().position(|l| l.contains("\"54 kg\"")).unwrap() + 1;
+    assert!(err.contains(&format!("broken.toml:{line}:")), "{err}");
+    assert!(err.contains("airframe.outer_diameter"), "{err}");
+    assert!(err.contains("expected a length"), "{err}");
+}
+
+#[test]
+fn output_never_overwrites_the_input() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("mine.toml");
+    std::fs::copy("layouts/heron-54.toml", &path).unwrap();
+    let before = std::fs::read(&path).unwrap();
+    let out = portwright().args(["analyze", path.to_str().unwrap(), "--out", path.to_str().unwrap()]).output().unwrap();
+    assert!(!out.status.success(), "writing over the input must be refused");
+    assert_eq!(std::fs::read(&path).unwrap(), before, "the input changed");
+    // A separate output path is written whole.
+    let report = dir.path().join("report.txt");
+    let out = portwright().args(["analyze", path.to_str().unwrap(), "--out", report.to_str().unwrap()]).output().unwrap();
+    assert!(out.status.success());
+    assert!(std::fs::read_to_string(&report).unwrap().contains("Findings"));
+}
+
+/// The README's quick-start and example commands run as written.
+#[test]
+fn readme_commands_work() {
+    let readme = std::fs::read_to_string(Path::new("README.md")).unwrap();
+    let mut ran = 0;
+    for line in readme.lines() {
+        let cmd = line.split('#').next().unwrap().trim();
+        if let Some(args) = cmd.strip_prefix("cargo run --release -- ") {
+            let args: Vec<&str> = args.split_whitespace().collect();
+            let out = portwright().args(&args).output().unwrap();
+            assert!(out.status.success(), "README command `{cmd}` failed:\n{}", String::from_utf8_lossy(&out.stderr));
+            ran += 1;
+        }
+    }
+    assert!(ran >= 1, "no README commands found");
+}

@@ -130,10 +130,9 @@ fn least_gas_at(
 /// Reference minimum-gas allocation: the same semantics as
 /// [`super::MinGasAllocator::allocate`], through `good_lp`/`microlp`.
 ///
-/// Outside the envelope the second step (least gas at the maximal scale s*) lets
-/// s range over [s*(1 − δ), s*] with δ = [`Tolerances::reference_scale_relax`]:
-/// `microlp` can call the exact point s = s* infeasible by rounding, and δ bounds
-/// the change of the result to the same relative size.
+/// Outside the envelope the second step (least gas at the maximal scale s*) fixes
+/// s = s*; should `microlp` call that exact point infeasible by rounding, it
+/// retries with s ∈ [s*(1 − δ), s*], δ = [`Tolerances::reference_scale_relax`].
 pub fn reference_min_gas(
     e: &Effectiveness,
     tau: &Vector3<f64>,
@@ -143,9 +142,17 @@ pub fn reference_min_gas(
     let (duty, scale, status) = match least_gas_at(e, tau, side, (1.0, 1.0)) {
         Ok(u) => (u, 1.0, AllocationStatus::Exact),
         Err(LpError::Infeasible) => {
-            let s = max_scale(e, tau, side)?;
-            let low = s * (1.0 - tol.reference_scale_relax);
-            let u = least_gas_at(e, tau, side, (low, s))?;
+            let mut s = max_scale(e, tau, side)?.clamp(0.0, 1.0);
+            if s <= tol.primal_feasibility {
+                s = 0.0;
+            }
+            let u = match least_gas_at(e, tau, side, (s, s)) {
+                Err(LpError::Infeasible) => {
+                    let low = s * (1.0 - tol.reference_scale_relax);
+                    least_gas_at(e, tau, side, (low, s))?
+                }
+                other => other?,
+            };
             (u, s, AllocationStatus::Saturated)
         }
         Err(other) => return Err(other),

@@ -21,7 +21,7 @@ pub mod effectiveness;
 pub mod lp;
 pub mod mingas;
 //TMP pub mod onoff;
-//TMP pub mod region_map;
+pub mod region_map;
 pub mod simplex;
 pub mod zonotope;
 
@@ -33,7 +33,7 @@ pub use effectiveness::{Effectiveness, EffectivenessError, PortGeometry};
 pub use lp::{LpError, SideForceEnvelope};
 pub use mingas::{Allocation, AllocationError, AllocationStatus, MinGasAllocator, SideForceLimit};
 //TMP pub use onoff::{OnOffError, OnOffOptions, OnOffPlan, OnOffSelection, ValveSet};
-//TMP pub use region_map::{Region, RegionMap, RegionMapError};
+pub use region_map::{Region, RegionMap, RegionMapError};
 pub use simplex::{BoundedSimplex, SimplexError, SimplexSolution, Start};
 pub use zonotope::{AxisLimits, Facet, Zonotope, ZonotopeError};
 

@@ -231,11 +231,7 @@ impl Effectiveness {
 
     /// Gas rate (kg/s) for the duty cycles `u`.
     pub fn gas_for(&self, u: &[f64]) -> f64 {
-        self.mass_flow_kg_s
-            .iter()
-            .zip(u)
-            .map(|(m, x)| m * x)
-            .sum()
+        self.mass_flow_kg_s.iter().zip(u).map(|(m, x)| m * x).sum()
     }
 }
 
@@ -263,12 +259,10 @@ mod tests {
 
     #[test]
     fn cross_product_by_hand() {
-        // Port 0.5 m aft of the CG (x = -0.5) on the +y side, pushing toward +y... no
-        // moment arm along y, so use a tangential push: r = (-0.5, 0.02, 0), d = +z.
-        // r × d = (0.02·1 - 0·0, 0·0 - (-0.5)·1, 0) = (0.02, 0.5, 0); times 2 N.
-        let e =
-            Effectiveness::from_ports(&[port("a", [-0.5, 0.02, 0.0], [0.0, 0.0, 1.0], 2.0)])
-                .expect("valid port");
+        // Port 0.5 m aft of the CG, 0.02 m out on +y, pushing along +z with 2 N:
+        // r × d = (0.02·1 − 0·0, 0·0 − (−0.5)·1, 0) = (0.02, 0.5, 0); times 2 N.
+        let e = Effectiveness::from_ports(&[port("a", [-0.5, 0.02, 0.0], [0.0, 0.0, 1.0], 2.0)])
+            .expect("valid port");
         let t = e.torque().column(0);
         // Exact: products of short decimals by 2 round to within one ulp.
         approx::assert_relative_eq!(t[0], 0.04, max_relative = 1e-15);
@@ -304,7 +298,10 @@ mod tests {
             DVector::from_element(1, -1.0),
             vec!["a".into()],
         );
-        assert!(matches!(r, Err(EffectivenessError::NegativeMassFlow { .. })));
+        assert!(matches!(
+            r,
+            Err(EffectivenessError::NegativeMassFlow { .. })
+        ));
         assert!(matches!(
             Effectiveness::from_ports(&[]),
             Err(EffectivenessError::NoPorts)

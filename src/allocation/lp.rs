@@ -60,10 +60,7 @@ fn model(e: &Effectiveness) -> Model {
         .map(|_| vars.add(variable().min(0.0).max(1.0)))
         .collect();
     let row = |m: &nalgebra::Matrix3xX<f64>, r: usize| -> Expression {
-        u.iter()
-            .enumerate()
-            .map(|(i, v)| m[(r, i)] * *v)
-            .sum()
+        u.iter().enumerate().map(|(i, v)| m[(r, i)] * *v).sum()
     };
     let torque = [row(e.torque(), 0), row(e.torque(), 1), row(e.torque(), 2)];
     let force = [row(e.force(), 0), row(e.force(), 1), row(e.force(), 2)];
@@ -75,7 +72,11 @@ fn model(e: &Effectiveness) -> Model {
     }
 }
 
-fn side_rows<M: SolverModel>(mut p: M, force: &[Expression; 3], side: SideForceLimit) -> Result<M, LpError> {
+fn side_rows<M: SolverModel>(
+    mut p: M,
+    force: &[Expression; 3],
+    side: SideForceLimit,
+) -> Result<M, LpError> {
     let limit = match side {
         SideForceLimit::Free => return Ok(p),
         SideForceLimit::PureCouple => 0.0,
@@ -169,7 +170,11 @@ pub fn reference_min_gas(
 }
 
 /// Largest s ∈ [0, 1] with s·τ attainable under the side-force rule.
-pub fn max_scale(e: &Effectiveness, tau: &Vector3<f64>, side: SideForceLimit) -> Result<f64, LpError> {
+pub fn max_scale(
+    e: &Effectiveness,
+    tau: &Vector3<f64>,
+    side: SideForceLimit,
+) -> Result<f64, LpError> {
     let Model {
         mut vars,
         torque,
@@ -214,7 +219,11 @@ pub fn support(
 
 /// Largest t ≥ 0 with t·dir attainable under the side-force rule (a ray
 /// intersection). `dir` must be non-zero.
-pub fn max_along(e: &Effectiveness, dir: &Vector3<f64>, side: SideForceLimit) -> Result<f64, LpError> {
+pub fn max_along(
+    e: &Effectiveness,
+    dir: &Vector3<f64>,
+    side: SideForceLimit,
+) -> Result<f64, LpError> {
     let Model {
         mut vars,
         torque,

@@ -133,8 +133,8 @@ impl MinGasAllocator {
         let gas_scale = positive_or_one(e.mass_flow_kg_s().max());
         let mut column = [0.0; 5];
         for i in 0..n {
-            for r in 0..3 {
-                column[r] = e.torque()[(r, i)] / torque_scale;
+            for (r, v) in column.iter_mut().take(3).enumerate() {
+                *v = e.torque()[(r, i)] / torque_scale;
             }
             if rows == 5 {
                 column[3] = e.force()[(1, i)] / force_scale;
@@ -267,7 +267,9 @@ fn positive_or_one(v: f64) -> f64 {
 mod tests {
     use super::*;
     use crate::allocation::simplex::BoundedSimplex;
-    use crate::allocation::testkit::{clarabel_min_gas, inside_command, port_at, random_layout, Rng};
+    use crate::allocation::testkit::{
+        clarabel_min_gas, inside_command, port_at, random_layout, Rng,
+    };
     use crate::allocation::{lp, Zonotope};
     use approx::assert_relative_eq;
     use proptest::prelude::*;
@@ -289,7 +291,10 @@ mod tests {
         assert_eq!(lp.values(), &[1.0, 0.5]);
         // x₀ + x₁ = 3 cannot be met in the unit box.
         lp.set_rhs(&[3.0]);
-        assert!(matches!(lp.solve(Start::Warm), Err(SimplexError::Infeasible { .. })));
+        assert!(matches!(
+            lp.solve(Start::Warm),
+            Err(SimplexError::Infeasible { .. })
+        ));
         // A warm start after a change of cost: max x₁ (cost −1) gives x = (0.5, 1).
         lp.set_rhs(&[1.5]);
         lp.solve(Start::Cold).expect("feasible");
@@ -355,7 +360,11 @@ mod tests {
                     assert!(got.duty.iter().all(|u| (0.0..=1.0).contains(u)));
                     if got.status == AllocationStatus::Exact {
                         assert!((got.torque - tau).norm() <= 1e-9 * e.torque().abs().max());
-                        assert_relative_eq!(got.gas_rate_kg_s, reference.gas_rate_kg_s, max_relative = 1e-9);
+                        assert_relative_eq!(
+                            got.gas_rate_kg_s,
+                            reference.gas_rate_kg_s,
+                            max_relative = 1e-9
+                        );
                         let (cg, _) = clarabel_min_gas(&e, &tau, side, 1.0, 1.0, false)
                             .expect("clarabel solves");
                         assert_relative_eq!(got.gas_rate_kg_s, cg, max_relative = 1e-7);
@@ -380,9 +389,9 @@ mod tests {
     #[test]
     fn saturates_along_the_command() {
         // Outside the envelope the achieved torque is s·τ with s·|τ| the zonotope's
-        // ray maximum (exact facet computation, see zonotope.rs), and the least gas
-        // at that scale matches microlp to 1e-7 (its step two relaxes s by 1e-9)
-        // and Clarabel's scale to 1e-7.
+        // ray maximum (exact facet computation, see zonotope.rs) to 1e-9, the least
+        // gas at that scale matches microlp's two-step answer to 1e-9, and the scale
+        // matches Clarabel's (interior point, about 1e-8 accurate here) to 1e-7.
         let tol = Tolerances::default();
         let mut rng = Rng(99);
         for case in 0..40 {
@@ -420,7 +429,12 @@ mod tests {
             let c = cold.allocate(&tau).expect("solves");
             assert_eq!(w.status, c.status);
             // Two optimal vertices of the same LP: equal objective up to rounding.
-            assert_relative_eq!(w.gas_rate_kg_s, c.gas_rate_kg_s, max_relative = 1e-10, epsilon = 1e-15);
+            assert_relative_eq!(
+                w.gas_rate_kg_s,
+                c.gas_rate_kg_s,
+                max_relative = 1e-10,
+                epsilon = 1e-15
+            );
             assert_relative_eq!(w.scale, c.scale, max_relative = 1e-10);
         }
     }
@@ -428,8 +442,7 @@ mod tests {
     #[test]
     fn tangential_roll_pair_by_hand() {
         // Ports at clock 0° and 180°, 0.3 m aft of the CG, pushing along +roll travel.
-        // By hand: τ_A = (RT, −x T, 0)·... with x = −0.3: τ_A = (RT, 0.3T, 0)? Work it:
-        // r_A = (x, R, 0), F_A = (0, 0, T): r × F = (R T, −x T, 0) = (RT, 0.3T, 0);
+        // By hand, r_A = (x, R, 0), F_A = (0, 0, T): r × F = (R T, −x T, 0) = (RT, 0.3T, 0);
         // r_B = (x, −R, 0), F_B = (0, 0, −T): r × F = (R T, x T, 0) = (RT, −0.3T, 0).
         // Pure roll τ = (RT, 0, 0) needs u_A = u_B = ½, gas = ṁ; no pure pitch exists.
         let (t, r, x) = (1.5, 0.027, -0.3);
@@ -446,13 +459,26 @@ mod tests {
         // Two 2×2 solves of exact small numbers: 1e-12 relative.
         assert_relative_eq!(got.duty[0], 0.5, max_relative = 1e-12);
         assert_relative_eq!(got.duty[1], 0.5, max_relative = 1e-12);
-        assert_relative_eq!(got.gas_rate_kg_s, e.mass_flow_kg_s()[0], max_relative = 1e-12);
+        assert_relative_eq!(
+            got.gas_rate_kg_s,
+            e.mass_flow_kg_s()[0],
+            max_relative = 1e-12
+        );
         let z = Zonotope::torque(&e, &tol).expect("builds");
-        assert_relative_eq!(z.max_along(&Vector3::x()), 2.0 * r * t, max_relative = 1e-12);
+        assert_relative_eq!(
+            z.max_along(&Vector3::x()),
+            2.0 * r * t,
+            max_relative = 1e-12
+        );
         assert_eq!(z.max_along(&Vector3::y()), 0.0);
         let c = crate::allocation::Controllability::from_zonotope(&e, &z, &tol);
         let words = c.findings(&e);
-        assert!(words.contains(&"positive pitch comes only together with torque on another axis".to_string()), "{words:?}");
+        assert!(
+            words.contains(
+                &"positive pitch comes only together with torque on another axis".to_string()
+            ),
+            "{words:?}"
+        );
         assert!(words.contains(&"no port gives negative roll".to_string()));
     }
 
@@ -498,7 +524,11 @@ mod tests {
         // negative for the others, so gas ≥ a ṁ/(RT), met by equal duty on the four.
         let roll = 0.7 * 4.0 * r * t;
         let got = a.allocate(&Vector3::new(roll, 0.0, 0.0)).expect("solves");
-        assert_relative_eq!(got.gas_rate_kg_s, roll * mdot / (r * t), max_relative = 1e-9);
+        assert_relative_eq!(
+            got.gas_rate_kg_s,
+            roll * mdot / (r * t),
+            max_relative = 1e-9
+        );
         // Eight generators, but ±roll ports at opposite clocks are not parallel:
         // no merging, and the set is centrally symmetric about the origin.
         assert_eq!(z.generators().count(), 8);

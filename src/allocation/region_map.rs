@@ -133,8 +133,8 @@ impl RegionMap {
                     let Some(m) = bb.try_inverse() else { continue };
                     let ports = [i, j, k];
                     let y = m.transpose() * Vector3::new(c[i], c[j], c[k]);
-                    let yw = m.transpose()
-                        * Vector3::new(tie_weight(i), tie_weight(j), tie_weight(k));
+                    let yw =
+                        m.transpose() * Vector3::new(tie_weight(i), tie_weight(j), tie_weight(k));
                     let mut full_on = Vec::new();
                     let mut reduced = vec![0.0; n];
                     let mut sum_on = Vector3::zeros();
@@ -270,7 +270,12 @@ mod tests {
             let from_lp = alloc.allocate(&tau).expect("solves");
             assert_eq!(from_map.status, from_lp.status);
             // The same LP optimum through two routes: 1e-9 relative on gas and scale.
-            assert_relative_eq!(from_map.gas_rate_kg_s, from_lp.gas_rate_kg_s, max_relative = 1e-9, epsilon = 1e-15);
+            assert_relative_eq!(
+                from_map.gas_rate_kg_s,
+                from_lp.gas_rate_kg_s,
+                max_relative = 1e-9,
+                epsilon = 1e-15
+            );
             assert_relative_eq!(from_map.scale, from_lp.scale, max_relative = 1e-9);
             assert!((from_map.torque - tau * from_map.scale).norm() <= 1e-9 * z.scale());
             if from_map.status == AllocationStatus::Exact {
@@ -285,7 +290,11 @@ mod tests {
         let mut rng = Rng(77);
         for case in 0..12 {
             let e = random_layout(&mut rng, 4 + case % 9);
-            if Zonotope::torque(&e, &Tolerances::default()).expect("builds").rank() == 3 {
+            if Zonotope::torque(&e, &Tolerances::default())
+                .expect("builds")
+                .rank()
+                == 3
+            {
                 check_against_simplex(&e, &mut rng, 60);
             }
         }
@@ -337,7 +346,14 @@ mod tests {
         let ports: Vec<_> = (0..4)
             .map(|k| {
                 let a = k as f64 * std::f64::consts::FRAC_PI_2;
-                port_at("r", -0.5, 0.027, a, -Vector3::new(0.0, a.cos(), a.sin()), 1.0)
+                port_at(
+                    "r",
+                    -0.5,
+                    0.027,
+                    a,
+                    -Vector3::new(0.0, a.cos(), a.sin()),
+                    1.0,
+                )
             })
             .collect();
         let e = Effectiveness::from_ports(&ports).expect("valid");

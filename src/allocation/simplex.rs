@@ -349,10 +349,8 @@ impl BoundedSimplex {
                     continue;
                 }
                 let col = &self.a[j * m..(j + 1) * m];
-                let mut d = self.phase_cost[j];
-                for k in 0..m {
-                    d -= self.y[k] * col[k];
-                }
+                let d = self.phase_cost[j]
+                    - self.y.iter().zip(col).map(|(y, a)| y * a).sum::<f64>();
                 let gain = if self.at_upper[j] { d } else { -d };
                 if gain > self.tol.optimality {
                     if bland {

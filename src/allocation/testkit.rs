@@ -39,7 +39,14 @@ const G0: f64 = 9.806_65;
 
 /// A port on a 54 mm tube at station offset `x` from the CG and clock angle
 /// `clock_rad`, pushing along `dir` with `thrust` N and a 50 s specific impulse.
-pub fn port_at(name: &str, x: f64, radius: f64, clock_rad: f64, dir: Vector3<f64>, thrust: f64) -> PortGeometry {
+pub fn port_at(
+    name: &str,
+    x: f64,
+    radius: f64,
+    clock_rad: f64,
+    dir: Vector3<f64>,
+    thrust: f64,
+) -> PortGeometry {
     PortGeometry {
         name: name.into(),
         position_m: Vector3::new(x, radius * clock_rad.cos(), radius * clock_rad.sin()),
@@ -99,8 +106,8 @@ pub fn clarabel_min_gas(
     let mut eq: Vec<(Vec<f64>, f64)> = Vec::new();
     for r in 0..3 {
         let mut row = vec![0.0; nv];
-        for i in 0..n {
-            row[i] = e.torque()[(r, i)];
+        for (i, v) in row.iter_mut().take(n).enumerate() {
+            *v = e.torque()[(r, i)];
         }
         row[n] = -tau[r];
         eq.push((row, 0.0));

@@ -88,7 +88,8 @@ impl Zonotope {
         inertia: &Matrix3<f64>,
         tol: &Tolerances,
     ) -> Result<Self, ZonotopeError> {
-        let symmetric = (inertia - inertia.transpose()).abs().max() <= tol.rank * inertia.abs().max();
+        let symmetric =
+            (inertia - inertia.transpose()).abs().max() <= tol.rank * inertia.abs().max();
         let chol = nalgebra::Cholesky::new(*inertia).ok_or(ZonotopeError::BadInertia)?;
         if !symmetric {
             return Err(ZonotopeError::BadInertia);
@@ -222,7 +223,9 @@ impl Zonotope {
             if in_plane[j] {
                 let phi = h.dot(&p2).atan2(h.dot(&p1));
                 for shift in [0.5, -0.5] {
-                    angles.push((phi + shift * std::f64::consts::PI).rem_euclid(std::f64::consts::TAU));
+                    angles.push(
+                        (phi + shift * std::f64::consts::PI).rem_euclid(std::f64::consts::TAU),
+                    );
                 }
             }
         }
@@ -299,7 +302,11 @@ impl Zonotope {
         for normal in [g, -g] {
             self.halfspaces.push((normal, self.support(&normal)));
         }
-        let helper = if g.x.abs() < 0.9 { Vector3::x() } else { Vector3::y() };
+        let helper = if g.x.abs() < 0.9 {
+            Vector3::x()
+        } else {
+            Vector3::y()
+        };
         let a = g.cross(&helper).normalize();
         self.off_span = vec![a, g.cross(&a)];
         self.vertices = vec![self.center - self.half[0], self.center + self.half[0]];
@@ -307,10 +314,7 @@ impl Zonotope {
 
     /// Support function h(d) = max over Z of d·x = Σ max(0, bᵢ·d).
     pub fn support(&self, d: &Vector3<f64>) -> f64 {
-        self.columns
-            .column_iter()
-            .map(|b| b.dot(d).max(0.0))
-            .sum()
+        self.columns.column_iter().map(|b| b.dot(d).max(0.0)).sum()
     }
 
     /// The duty cycles (0 or 1, bang-bang) that attain the support value h(d).
@@ -516,7 +520,10 @@ mod tests {
         let c = Controllability::from_zonotope(&e, &z, &tol);
         assert!(!c.positive_span);
         let words = c.findings(&e);
-        assert!(words.contains(&"no port gives positive roll".to_string()), "{words:?}");
+        assert!(
+            words.contains(&"no port gives positive roll".to_string()),
+            "{words:?}"
+        );
         assert!(words.contains(&"no port gives negative roll".to_string()));
         assert_eq!(c.missing().len(), 2);
     }
@@ -539,7 +546,11 @@ mod tests {
         assert_relative_eq!(lim.positive.x, 2.0 * rt, max_relative = 1e-12);
         assert_relative_eq!(lim.negative.x, 2.0 * rt, max_relative = 1e-12);
         assert_relative_eq!(lim.positive.y, tl, max_relative = 1e-12);
-        assert_relative_eq!(z.inscribed_radius(), (2.0 * rt).min(tl), max_relative = 1e-12);
+        assert_relative_eq!(
+            z.inscribed_radius(),
+            (2.0 * rt).min(tl),
+            max_relative = 1e-12
+        );
         let c = Controllability::from_zonotope(&e, &z, &tol);
         assert!(c.positive_span);
         assert!(c.findings(&e).is_empty());
@@ -593,7 +604,11 @@ mod tests {
             for _ in 0..10 {
                 let d = rng.unit();
                 // Support value vs vertex enumeration (max over vertices of d·v).
-                let best = z.vertices().iter().map(|v| v.dot(&d)).fold(f64::MIN, f64::max);
+                let best = z
+                    .vertices()
+                    .iter()
+                    .map(|v| v.dot(&d))
+                    .fold(f64::MIN, f64::max);
                 assert_relative_eq!(z.support(&d), best, epsilon = 1e-12 * s);
                 // Ray maximum: the point t·d is on the boundary.
                 let t = z.max_along(&d);
@@ -635,8 +650,16 @@ mod tests {
         let az = Zonotope::angular(&e, &diag, &tol).expect("builds");
         let (ta, aa) = (tz.axis_limits(), az.axis_limits());
         for a in 0..3 {
-            assert_relative_eq!(aa.positive[a], ta.positive[a] / diag[(a, a)], max_relative = 1e-9);
-            assert_relative_eq!(aa.negative[a], ta.negative[a] / diag[(a, a)], max_relative = 1e-9);
+            assert_relative_eq!(
+                aa.positive[a],
+                ta.positive[a] / diag[(a, a)],
+                max_relative = 1e-9
+            );
+            assert_relative_eq!(
+                aa.negative[a],
+                ta.negative[a] / diag[(a, a)],
+                max_relative = 1e-9
+            );
         }
         // Full inertia: t·e ∈ I⁻¹Z ⇔ t·(I e) ∈ Z, so the angular ray maximum along e
         // equals the torque ray maximum along I·e.
@@ -644,11 +667,19 @@ mod tests {
         let az = Zonotope::angular(&e, &full, &tol).expect("builds");
         for _ in 0..10 {
             let d = rng.unit();
-            assert_relative_eq!(az.max_along(&d), tz.max_along(&(full * d)), max_relative = 1e-9);
+            assert_relative_eq!(
+                az.max_along(&d),
+                tz.max_along(&(full * d)),
+                max_relative = 1e-9
+            );
         }
         assert_eq!(
-            Zonotope::angular(&e, &Matrix3::from_diagonal(&Vector3::new(1.0, -1.0, 1.0)), &tol)
-                .err(),
+            Zonotope::angular(
+                &e,
+                &Matrix3::from_diagonal(&Vector3::new(1.0, -1.0, 1.0)),
+                &tol
+            )
+            .err(),
             Some(ZonotopeError::BadInertia)
         );
     }

@@ -2,6 +2,7 @@
 #![deny(missing_docs)]
 
 pub mod airframe;
+pub mod allocation;
 pub mod analysis;
 pub mod atmosphere;
 pub mod export;

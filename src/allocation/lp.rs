@@ -1,0 +1,289 @@
+//! The allocation questions posed to a general LP solver (`good_lp` with the
+//! `microlp` backend), one fresh model per call.
+//!
+//! Two uses:
+//! - a reference for the dedicated simplex in [`super::mingas`]: same programs,
+//!   written the plain way, solved by an unrelated implementation;
+//! - the attainable torque set when the side force is limited. With rows on
+//!   F_y and F_z the set is the projection of a polytope that is no longer a
+//!   zonotope, so its support function h(d) = max d·B u and its ray maxima are
+//!   linear programs, and its shape is approximated from a chosen number of
+//!   directions (a Fibonacci sphere): the planes d_k·x ≤ h(d_k) bound it from
+//!   outside, and the maximising torques are attainable points inside it.
+
+use super::{Allocation, AllocationStatus, Effectiveness, SideForceLimit, Tolerances};
+use good_lp::{
+    microlp, variable, Expression, ProblemVariables, ResolutionError, Solution, SolverModel,
+    Variable,
+};
+use nalgebra::Vector3;
+use thiserror::Error;
+
+/// Outcomes of a reference LP that are not an optimum.
+#[derive(Debug, Error, Clone, PartialEq)]
+pub enum LpError {
+    /// No point satisfies the constraints.
+    #[error("the linear program is infeasible")]
+    Infeasible,
+    /// The objective is unbounded.
+    #[error("the linear program is unbounded")]
+    Unbounded,
+    /// The side-force limit is negative or not finite.
+    #[error("side-force limit {0} N is not a finite non-negative number")]
+    BadLimit(f64),
+    /// Any other solver failure, with its message.
+    #[error("LP solver: {0}")]
+    Solver(String),
+}
+
+impl From<ResolutionError> for LpError {
+    fn from(e: ResolutionError) -> Self {
+        match e {
+            ResolutionError::Infeasible => LpError::Infeasible,
+            ResolutionError::Unbounded => LpError::Unbounded,
+            other => LpError::Solver(other.to_string()),
+        }
+    }
+}
+
+/// Duty-cycle variables and the torque and force expressions built from them.
+struct Model {
+    vars: ProblemVariables,
+    u: Vec<Variable>,
+    torque: [Expression; 3],
+    force: [Expression; 3],
+}
+
+fn model(e: &Effectiveness) -> Model {
+    let mut vars = ProblemVariables::new();
+    let u: Vec<Variable> = (0..e.len())
+        .map(|_| vars.add(variable().min(0.0).max(1.0)))
+        .collect();
+    let row = |m: &nalgebra::Matrix3xX<f64>, r: usize| -> Expression {
+        u.iter().enumerate().map(|(i, v)| m[(r, i)] * *v).sum()
+    };
+    let torque = [row(e.torque(), 0), row(e.torque(), 1), row(e.torque(), 2)];
+    let force = [row(e.force(), 0), row(e.force(), 1), row(e.force(), 2)];
+    Model {
+        vars,
+        u,
+        torque,
+        force,
+    }
+}
+
+fn side_rows<M: SolverModel>(
+    mut p: M,
+    force: &[Expression; 3],
+    side: SideForceLimit,
+) -> Result<M, LpError> {
+    let limit = match side {
+        SideForceLimit::Free => return Ok(p),
+        SideForceLimit::PureCouple => 0.0,
+        SideForceLimit::Bounded { limit_n } => {
+            if !limit_n.is_finite() || limit_n < 0.0 {
+                return Err(LpError::BadLimit(limit_n));
+            }
+            limit_n
+        }
+    };
+    for f in &force[1..3] {
+        if limit == 0.0 {
+            p.add_constraint(f.clone().eq(0.0));
+        } else {
+            p.add_constraint(f.clone().leq(limit));
+            p.add_constraint(f.clone().geq(-limit));
+        }
+    }
+    Ok(p)
+}
+
+fn gas_expression(e: &Effectiveness, u: &[Variable]) -> Expression {
+    u.iter()
+        .zip(e.mass_flow_kg_s().iter())
+        .map(|(v, m)| *m * *v)
+        .sum()
+}
+
+/// Least gas for B u = s·τ with s fixed, or `Infeasible`.
+fn least_gas_at(
+    e: &Effectiveness,
+    tau: &Vector3<f64>,
+    side: SideForceLimit,
+    scale: (f64, f64),
+) -> Result<Vec<f64>, LpError> {
+    let Model {
+        mut vars,
+        u,
+        torque,
+        force,
+    } = model(e);
+    let s = vars.add(variable().min(scale.0).max(scale.1));
+    let mut p = vars.minimise(gas_expression(e, &u)).using(microlp);
+    for (r, t) in torque.into_iter().enumerate() {
+        p.add_constraint((t - tau[r] * s).eq(0.0));
+    }
+    let p = side_rows(p, &force, side)?;
+    let sol = p.solve()?;
+    Ok(u.iter().map(|v| sol.value(*v)).collect())
+}
+
+/// Reference minimum-gas allocation: the same semantics as
+/// [`super::MinGasAllocator::allocate`], through `good_lp`/`microlp`.
+///
+/// Outside the envelope the second step (least gas at the maximal scale s*) fixes
+/// s = s*; should `microlp` call that exact point infeasible by rounding, it
+/// retries with s ∈ [s*(1 − δ), s*], δ = [`Tolerances::reference_scale_relax`].
+pub fn reference_min_gas(
+    e: &Effectiveness,
+    tau: &Vector3<f64>,
+    side: SideForceLimit,
+    tol: &Tolerances,
+) -> Result<Allocation, LpError> {
+    let (duty, scale, status) = match least_gas_at(e, tau, side, (1.0, 1.0)) {
+        Ok(u) => (u, 1.0, AllocationStatus::Exact),
+        Err(LpError::Infeasible) => {
+            let mut s = max_scale(e, tau, side)?.clamp(0.0, 1.0);
+            if s <= tol.primal_feasibility {
+                s = 0.0;
+            }
+            let u = match least_gas_at(e, tau, side, (s, s)) {
+                Err(LpError::Infeasible) => {
+                    let low = s * (1.0 - tol.reference_scale_relax);
+                    least_gas_at(e, tau, side, (low, s))?
+                }
+                other => other?,
+            };
+            (u, s, AllocationStatus::Saturated)
+        }
+        Err(other) => return Err(other),
+    };
+    let duty: Vec<f64> = duty.into_iter().map(|x| x.clamp(0.0, 1.0)).collect();
+    Ok(Allocation {
+        gas_rate_kg_s: e.gas_for(&duty),
+        torque: e.torque_for(&duty),
+        force: e.force_for(&duty),
+        duty,
+        scale,
+        status,
+    })
+}
+
+/// Largest s ∈ [0, 1] with s·τ attainable under the side-force rule.
+pub fn max_scale(
+    e: &Effectiveness,
+    tau: &Vector3<f64>,
+    side: SideForceLimit,
+) -> Result<f64, LpError> {
+    let Model {
+        mut vars,
+        torque,
+        force,
+        ..
+    } = model(e);
+    let s = vars.add(variable().min(0.0).max(1.0));
+    let mut p = vars.maximise(s).using(microlp);
+    for (r, t) in torque.into_iter().enumerate() {
+        p.add_constraint((t - tau[r] * s).eq(0.0));
+    }
+    let p = side_rows(p, &force, side)?;
+    let sol = p.solve()?;
+    Ok(sol.value(s))
+}
+
+/// Support value h(d) = max d·(B u) under the side-force rule, with the torque
+/// that attains it.
+pub fn support(
+    e: &Effectiveness,
+    d: &Vector3<f64>,
+    side: SideForceLimit,
+) -> Result<(f64, Vector3<f64>), LpError> {
+    let Model {
+        vars,
+        u,
+        torque,
+        force,
+    } = model(e);
+    let objective: Expression = torque
+        .iter()
+        .enumerate()
+        .map(|(r, t)| d[r] * t.clone())
+        .sum();
+    let p = vars.maximise(objective).using(microlp);
+    let p = side_rows(p, &force, side)?;
+    let sol = p.solve()?;
+    let duty: Vec<f64> = u.iter().map(|v| sol.value(*v).clamp(0.0, 1.0)).collect();
+    let t = e.torque_for(&duty);
+    Ok((t.dot(d), t))
+}
+
+/// Largest t ≥ 0 with t·dir attainable under the side-force rule (a ray
+/// intersection). `dir` must be non-zero.
+pub fn max_along(
+    e: &Effectiveness,
+    dir: &Vector3<f64>,
+    side: SideForceLimit,
+) -> Result<f64, LpError> {
+    let Model {
+        mut vars,
+        torque,
+        force,
+        ..
+    } = model(e);
+    let t = vars.add(variable().min(0.0));
+    let mut p = vars.maximise(t).using(microlp);
+    for (r, row) in torque.into_iter().enumerate() {
+        p.add_constraint((row - dir[r] * t).eq(0.0));
+    }
+    let p = side_rows(p, &force, side)?;
+    let sol = p.solve()?;
+    Ok(sol.value(t))
+}
+
+/// `count` nearly uniform unit vectors on the sphere (a Fibonacci lattice).
+pub fn fibonacci_directions(count: usize) -> Vec<Vector3<f64>> {
+    let golden = std::f64::consts::PI * (3.0 - 5.0_f64.sqrt());
+    (0..count)
+        .map(|k| {
+            let z = 1.0 - 2.0 * (k as f64 + 0.5) / count as f64;
+            let r = (1.0 - z * z).max(0.0).sqrt();
+            let phi = golden * k as f64;
+            Vector3::new(r * phi.cos(), r * phi.sin(), z)
+        })
+        .collect()
+}
+
+/// Polytope approximation of the side-force-limited torque set from a fixed set
+/// of directions.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SideForceEnvelope {
+    /// Supporting planes (unit normal d_k, offset h(d_k)); their intersection
+    /// contains the true set.
+    pub planes: Vec<(Vector3<f64>, f64)>,
+    /// Attainable torques that achieve each h(d_k); their convex hull lies inside
+    /// the true set.
+    pub points: Vec<Vector3<f64>>,
+}
+
+impl SideForceEnvelope {
+    /// Solves one support LP per direction of a `count`-point Fibonacci sphere.
+    pub fn new(e: &Effectiveness, side: SideForceLimit, count: usize) -> Result<Self, LpError> {
+        let mut planes = Vec::with_capacity(count);
+        let mut points = Vec::with_capacity(count);
+        for d in fibonacci_directions(count) {
+            let (h, t) = support(e, &d, side)?;
+            planes.push((d, h));
+            points.push(t);
+        }
+        Ok(Self { planes, points })
+    }
+
+    /// Ray maximum of the outer approximation: an upper bound on the true one.
+    pub fn outer_max_along(&self, dir: &Vector3<f64>) -> f64 {
+        self.planes
+            .iter()
+            .filter(|(n, _)| n.dot(dir) > 0.0)
+            .map(|(n, h)| h.max(0.0) / n.dot(dir))
+            .fold(f64::INFINITY, f64::min)
+    }
+}

@@ -1,0 +1,365 @@
+//! The exact minimum-gas map as a piecewise-linear function of the command.
+//!
+//! In the minimum-gas LP (no side-force rows) a basis is three ports whose
+//! torque columns B_β are independent. Its reduced costs dⱼ = ṁⱼ − yᵀbⱼ, with
+//! yᵀ = ṁ_βᵀ B_β⁻¹, do not depend on the command, so each basis fixes which other
+//! ports sit at 1 (dⱼ < 0) and which at 0 (dⱼ > 0), and then
+//!
+//! ```text
+//! u_β = B_β⁻¹ (τ − Σ_{j at 1} bⱼ) = M τ + m,   region: 0 ≤ M τ + m ≤ 1  (six inequalities)
+//! ```
+//!
+//! Every independent triple therefore gives exactly one optimal region, a
+//! parallelepiped, and the regions of all triples tile the attainable set: this
+//! is the regular tiling of the zonotope lifted by the gas costs. The map below
+//! enumerates every triple instead of sampling, so it is complete by
+//! construction. Ties (dⱼ = 0, common with symmetric layouts and equal flows) are
+//! broken by a fixed small perturbation of the costs, which keeps the tiles from
+//! overlapping without changing the optimal gas. Completeness is checked in the
+//! tests two ways: the region volumes |det B_β| add up to the zonotope volume,
+//! and random commands fall in exactly one region whose evaluation matches the
+//! simplex's least gas.
+//!
+//! Outside the envelope the command is scaled down along its direction to the
+//! zonotope boundary (ray intersection with the facets), as the allocator does.
+
+use super::zonotope::{Zonotope, ZonotopeError};
+use super::{Allocation, AllocationStatus, Effectiveness, Tolerances};
+use nalgebra::{Matrix3, Vector3};
+use thiserror::Error;
+
+/// Problems building or using the region map.
+#[derive(Debug, Error, Clone, PartialEq)]
+pub enum RegionMapError {
+    /// The torque columns do not span three dimensions, so no port triple is a basis.
+    #[error("the port torques span only {0} axes; the region map needs all 3")]
+    RankDeficient(usize),
+    /// The zonotope could not be built.
+    #[error(transparent)]
+    Zonotope(#[from] ZonotopeError),
+    /// A command (after scaling) fell in no region; only rounding at region
+    /// boundaries can cause this, and it means the slack is too tight.
+    #[error("command ({0}, {1}, {2}) N·m fell in no region")]
+    NotCovered(f64, f64, f64),
+    /// The command has a NaN or infinite component.
+    #[error("the torque command is not finite")]
+    BadCommand,
+}
+
+/// One region of constant optimal basis.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Region {
+    /// The three basic (fractional) ports.
+    pub ports: [usize; 3],
+    /// M = B_β⁻¹: duty of the basic ports is M τ + `offset`.
+    pub map: Matrix3<f64>,
+    /// m = −M Σ_{j at 1} bⱼ.
+    pub offset: Vector3<f64>,
+    /// Non-basic ports held at duty 1.
+    pub full_on: Vec<usize>,
+    /// Reduced cost of every port (zero for the basic ones), kg/s per unit duty:
+    /// the optimality certificate. Negative for `full_on`, otherwise ≥ 0.
+    pub reduced_costs: Vec<f64>,
+}
+
+impl Region {
+    /// Duty cycles of the three basic ports for command `tau`.
+    pub fn basic_duty(&self, tau: &Vector3<f64>) -> Vector3<f64> {
+        self.map * tau + self.offset
+    }
+
+    /// The region as A τ ≤ c (six rows: −Mτ ≤ m and Mτ ≤ 1 − m).
+    pub fn inequalities(&self) -> ([Vector3<f64>; 6], [f64; 6]) {
+        let r = |k: usize| -> Vector3<f64> { self.map.row(k).transpose() };
+        (
+            [-r(0), -r(1), -r(2), r(0), r(1), r(2)],
+            [
+                self.offset[0],
+                self.offset[1],
+                self.offset[2],
+                1.0 - self.offset[0],
+                1.0 - self.offset[1],
+                1.0 - self.offset[2],
+            ],
+        )
+    }
+
+    /// Volume of the region in torque space, |det B_β| (N·m)³.
+    pub fn volume(&self) -> f64 {
+        1.0 / self.map.determinant().abs()
+    }
+
+    fn contains(&self, tau: &Vector3<f64>, slack: f64) -> bool {
+        let u = self.basic_duty(tau);
+        u.iter().all(|v| *v >= -slack && *v <= 1.0 + slack)
+    }
+}
+
+/// The complete piecewise-linear minimum-gas map of one effectiveness matrix.
+#[derive(Debug, Clone)]
+pub struct RegionMap {
+    e: Effectiveness,
+    zonotope: Zonotope,
+    regions: Vec<Region>,
+    tol: Tolerances,
+}
+
+/// Deterministic tie-break weights: fractional parts of multiples of the golden
+/// ratio, all distinct, used only when a reduced cost is zero to rounding.
+fn tie_weight(j: usize) -> f64 {
+    ((j as f64 + 1.0) * 0.618_033_988_749_894_9).fract() + 0.5
+}
+
+impl RegionMap {
+    /// Enumerates every independent port triple and its optimal region.
+    pub fn new(e: &Effectiveness, tol: &Tolerances) -> Result<Self, RegionMapError> {
+        let zonotope = Zonotope::torque(e, tol)?;
+        if zonotope.rank() < 3 {
+            return Err(RegionMapError::RankDeficient(zonotope.rank()));
+        }
+        let n = e.len();
+        let b = e.torque();
+        let c = e.mass_flow_kg_s();
+        let det_floor = tol.rank * zonotope.scale().powi(3);
+        let cost_floor = tol.optimality * c.max().max(f64::MIN_POSITIVE);
+        let mut regions = Vec::new();
+        for i in 0..n {
+            for j in i + 1..n {
+                for k in j + 1..n {
+                    let bb = Matrix3::from_columns(&[b.column(i), b.column(j), b.column(k)]);
+                    if bb.determinant().abs() <= det_floor {
+                        continue;
+                    }
+                    let Some(m) = bb.try_inverse() else { continue };
+                    let ports = [i, j, k];
+                    let y = m.transpose() * Vector3::new(c[i], c[j], c[k]);
+                    let yw =
+                        m.transpose() * Vector3::new(tie_weight(i), tie_weight(j), tie_weight(k));
+                    let mut full_on = Vec::new();
+                    let mut reduced = vec![0.0; n];
+                    let mut sum_on = Vector3::zeros();
+                    for l in 0..n {
+                        if ports.contains(&l) {
+                            continue;
+                        }
+                        let bl = b.column(l);
+                        let d = c[l] - y.dot(&bl);
+                        reduced[l] = d;
+                        let on = if d.abs() > cost_floor {
+                            d < 0.0
+                        } else {
+                            tie_weight(l) - yw.dot(&bl) < 0.0
+                        };
+                        if on {
+                            full_on.push(l);
+                            sum_on += bl;
+                        }
+                    }
+                    regions.push(Region {
+                        ports,
+                        map: m,
+                        offset: -(m * sum_on),
+                        full_on,
+                        reduced_costs: reduced,
+                    });
+                }
+            }
+        }
+        Ok(Self {
+            e: e.clone(),
+            zonotope,
+            regions,
+            tol: tol.clone(),
+        })
+    }
+
+    /// All regions.
+    pub fn regions(&self) -> &[Region] {
+        &self.regions
+    }
+
+    /// The torque zonotope used for scaling outside the envelope.
+    pub fn zonotope(&self) -> &Zonotope {
+        &self.zonotope
+    }
+
+    /// Sum of region volumes; equals the zonotope volume when the map is complete.
+    pub fn covered_volume(&self) -> f64 {
+        self.regions.iter().map(Region::volume).sum()
+    }
+
+    /// Index of the region containing `tau` (within the region slack), if any.
+    pub fn find(&self, tau: &Vector3<f64>) -> Option<usize> {
+        self.regions
+            .iter()
+            .position(|r| r.contains(tau, self.tol.region_slack))
+    }
+
+    /// Indices of every region containing `tau` (more than one only on shared boundaries).
+    pub fn find_all(&self, tau: &Vector3<f64>) -> Vec<usize> {
+        (0..self.regions.len())
+            .filter(|&i| self.regions[i].contains(tau, self.tol.region_slack))
+            .collect()
+    }
+
+    /// Least-gas duty cycles for `tau` from the map, scaling down along the
+    /// command direction when it is out of reach.
+    pub fn evaluate(&self, tau: &Vector3<f64>) -> Result<Allocation, RegionMapError> {
+        let mut out = Allocation::with_ports(self.e.len());
+        self.evaluate_into(tau, &mut out)?;
+        Ok(out)
+    }
+
+    /// As [`evaluate`](Self::evaluate), writing into `out`.
+    pub fn evaluate_into(
+        &self,
+        tau: &Vector3<f64>,
+        out: &mut Allocation,
+    ) -> Result<(), RegionMapError> {
+        if tau.iter().any(|v| !v.is_finite()) {
+            return Err(RegionMapError::BadCommand);
+        }
+        let (target, scale, status) = if self.zonotope.contains(tau) {
+            (*tau, 1.0, AllocationStatus::Exact)
+        } else {
+            let s = self.zonotope.max_along(tau).min(1.0);
+            (tau * s, s, AllocationStatus::Saturated)
+        };
+        let k = self
+            .find(&target)
+            .ok_or(RegionMapError::NotCovered(tau.x, tau.y, tau.z))?;
+        let r = &self.regions[k];
+        for d in out.duty.iter_mut() {
+            *d = 0.0;
+        }
+        for &j in &r.full_on {
+            out.duty[j] = 1.0;
+        }
+        let ub = r.basic_duty(&target);
+        for (p, v) in r.ports.iter().zip(ub.iter()) {
+            out.duty[*p] = v.clamp(0.0, 1.0);
+        }
+        out.gas_rate_kg_s = self.e.gas_for(&out.duty);
+        out.torque = self.e.torque_for(&out.duty);
+        out.force = self.e.force_for(&out.duty);
+        out.scale = scale;
+        out.status = status;
+        Ok(())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::allocation::testkit::{inside_command, port_at, random_layout, Rng};
+    use crate::allocation::{MinGasAllocator, SideForceLimit};
+    use approx::assert_relative_eq;
+
+    fn check_against_simplex(e: &Effectiveness, rng: &mut Rng, samples: usize) {
+        let tol = Tolerances::default();
+        let map = RegionMap::new(e, &tol).expect("builds");
+        let z = map.zonotope();
+        // Completeness by volume: the tiles add up to the whole zonotope (its volume
+        // from the triple formula; the facet-based check in zonotope.rs ties that
+        // formula to the geometry). Summing a few hundred positive terms: 1e-9.
+        assert_relative_eq!(map.covered_volume(), z.volume(), max_relative = 1e-9);
+        let mut alloc = MinGasAllocator::new(e, SideForceLimit::Free, &tol).expect("setup");
+        for _ in 0..samples {
+            let tau = inside_command(rng, e) * rng.range(0.0, 1.3);
+            let from_map = map.evaluate(&tau).expect("covered");
+            let from_lp = alloc.allocate(&tau).expect("solves");
+            assert_eq!(from_map.status, from_lp.status);
+            // The same LP optimum through two routes: 1e-9 relative on gas and scale.
+            assert_relative_eq!(
+                from_map.gas_rate_kg_s,
+                from_lp.gas_rate_kg_s,
+                max_relative = 1e-9,
+                epsilon = 1e-15
+            );
+            assert_relative_eq!(from_map.scale, from_lp.scale, max_relative = 1e-9);
+            assert!((from_map.torque - tau * from_map.scale).norm() <= 1e-9 * z.scale());
+            if from_map.status == AllocationStatus::Exact {
+                // No overlaps: a random interior command lies in exactly one tile.
+                assert_eq!(map.find_all(&tau).len(), 1, "tau {tau:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn random_maps_are_complete_and_optimal() {
+        let mut rng = Rng(77);
+        for case in 0..12 {
+            let e = random_layout(&mut rng, 4 + case % 9);
+            if Zonotope::torque(&e, &Tolerances::default())
+                .expect("builds")
+                .rank()
+                == 3
+            {
+                check_against_simplex(&e, &mut rng, 60);
+            }
+        }
+    }
+
+    #[test]
+    fn symmetric_ring_ties_are_broken() {
+        // Eight tangential ports with equal flows at clock k·45°: many zero reduced
+        // costs, which the tie-break must resolve into non-overlapping tiles.
+        let ports: Vec<_> = (0..8)
+            .map(|k| {
+                let a = k as f64 * std::f64::consts::FRAC_PI_4;
+                let travel = Vector3::new(0.0, -a.sin(), a.cos());
+                let sign = if k % 2 == 0 { 1.0 } else { -1.0 };
+                port_at(&format!("k{k}"), -0.5, 0.027, a, travel * sign, 1.0)
+            })
+            .collect();
+        let e = Effectiveness::from_ports(&ports).expect("valid");
+        let map = RegionMap::new(&e, &Tolerances::default()).expect("builds");
+        assert!(map.regions().len() <= 56);
+        check_against_simplex(&e, &mut Rng(1), 200);
+    }
+
+    #[test]
+    fn region_inequalities_describe_the_region() {
+        let mut rng = Rng(8);
+        let e = random_layout(&mut rng, 7);
+        let map = RegionMap::new(&e, &Tolerances::default()).expect("builds");
+        for _ in 0..50 {
+            let tau = inside_command(&mut rng, &e);
+            let k = map.find(&tau).expect("covered");
+            let r = &map.regions()[k];
+            let (a, c) = r.inequalities();
+            for (row, rhs) in a.iter().zip(c) {
+                assert!(row.dot(&tau) <= rhs + 1e-9);
+            }
+            for (l, d) in r.reduced_costs.iter().enumerate() {
+                if r.full_on.contains(&l) {
+                    assert!(*d <= 0.0);
+                } else {
+                    assert!(*d >= -1e-15);
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn flat_layout_is_refused() {
+        let ports: Vec<_> = (0..4)
+            .map(|k| {
+                let a = k as f64 * std::f64::consts::FRAC_PI_2;
+                port_at(
+                    "r",
+                    -0.5,
+                    0.027,
+                    a,
+                    -Vector3::new(0.0, a.cos(), a.sin()),
+                    1.0,
+                )
+            })
+            .collect();
+        let e = Effectiveness::from_ports(&ports).expect("valid");
+        assert_eq!(
+            RegionMap::new(&e, &Tolerances::default()).err(),
+            Some(RegionMapError::RankDeficient(2))
+        );
+    }
+}

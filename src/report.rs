@@ -116,6 +116,16 @@ pub fn render_text(a: &Analysis) -> String {
             ]);
         }
         let _ = writeln!(s, "{t}");
+        let env = &st.envelope;
+        let _ = writeln!(
+            s,
+            "exact torque envelope: {} facets, {} vertices, volume {:.3e} (N m)³; torque guaranteed in every direction {:.1} mN m ({:.1} deg/s² about the weakest axis)",
+            env.facets,
+            env.vertices,
+            env.volume_n3_m3,
+            env.guaranteed_torque_n_m * 1e3,
+            env.guaranteed_accel_rad_s2.to_degrees()
+        );
         let _ = writeln!(s, "roll-to-pitch authority ratio {:.2}", st.roll_to_pitch_ratio);
         let droop: Vec<String> = st
             .droop

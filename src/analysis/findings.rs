@@ -16,6 +16,9 @@ const GENEROUS_MARGIN: f64 = 8.0;
 pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec<String> {
     let mut out = Vec::new();
     for s in states {
+        for c in &s.envelope.controllability {
+            out.push(format!("at {}: {c}", s.name));
+        }
         for a in &s.authority {
             if !a.margin.is_finite() {
                 continue;

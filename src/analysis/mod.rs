@@ -12,9 +12,13 @@ pub mod authority;
 pub mod feed;
 pub mod findings;
 
+use crate::allocation::controllability::Controllability;
+use crate::allocation::effectiveness::{Effectiveness, PortGeometry};
+use crate::allocation::zonotope::Zonotope;
+use crate::allocation::Tolerances;
 use crate::mass::MassSummary;
 use crate::model::{Design, MotorCondition};
-use authority::{axis_authority, simple_sums, AxisAuthority, Required};
+use authority::{axis_authority, AxisAuthority, Required};
 use nalgebra::Vector3;
 use serde::Serialize;
 use thiserror::Error;
@@ -32,6 +36,14 @@ pub enum AnalysisError {
     Flow {
         /// Port name.
         port: String,
+        /// Flight state.
+        state: String,
+        /// What went wrong.
+        reason: String,
+    },
+    /// The allocation engine failed.
+    #[error("state `{state}`: {reason}")]
+    Allocation {
         /// Flight state.
         state: String,
         /// What went wrong.
@@ -90,7 +102,9 @@ pub struct StateReport {
     pub ports: Vec<PortReport>,
     /// Torque needed per axis.
     pub required: Required,
-    /// Per-axis authority from the simple sums of each port's contribution.
+    /// The exact attainable torque set (zonotope of duty cycles).
+    pub envelope: EnvelopeSummary,
+    /// Per-axis authority: the largest torque along ±roll, ±pitch, ±yaw inside the envelope.
     pub authority: [AxisAuthority; 3],
     /// Roll authority over pitch authority (angular acceleration, weaker senses).
     pub roll_to_pitch_ratio: f64,
@@ -98,6 +112,27 @@ pub struct StateReport {
     pub droop: Vec<DroopRow>,
     /// How many ports can fire together before each one's thrust falls by more than 5 %.
     pub ports_within_5_percent: usize,
+}
+
+/// The attainable torque set at a flight state, summarised.
+#[derive(Debug, Clone, Serialize)]
+pub struct EnvelopeSummary {
+    /// Number of facets of the zonotope.
+    pub facets: usize,
+    /// Number of vertices.
+    pub vertices: usize,
+    /// Volume, (N·m)³.
+    pub volume_n3_m3: f64,
+    /// Radius of the largest origin-centred ball inside: torque available in every direction, N·m.
+    pub guaranteed_torque_n_m: f64,
+    /// The same as angular acceleration about the weakest inertia axis, rad/s².
+    pub guaranteed_accel_rad_s2: f64,
+    /// Rank of the torque columns.
+    pub rank: usize,
+    /// Whether every torque direction can be produced.
+    pub full_control: bool,
+    /// Controllability in plain words (missing directions, idle ports).
+    pub controllability: Vec<String>,
 }
 
 /// The whole report.
@@ -149,6 +184,47 @@ pub fn port_wrenches(design: &Design, cg: Vector3<f64>, thrusts_n: &[f64]) -> Ve
         .collect()
 }
 
+/// The effectiveness matrix at a state from the ports' operating points there.
+pub fn effectiveness(design: &Design, mass: &MassSummary, ports: &[PortReport]) -> Result<Effectiveness, String> {
+    let radius = design.airframe.outer_radius_m();
+    let geometry: Vec<PortGeometry> = design
+        .ports
+        .iter()
+        .zip(ports)
+        .map(|(p, r)| PortGeometry {
+            name: p.name.clone(),
+            position_m: p.position(radius) - mass.cg(),
+            direction: p.thrust_direction(),
+            thrust_n: r.thrust_n,
+            mass_flow_kg_s: r.mass_flow_kg_s,
+        })
+        .collect();
+    Effectiveness::from_ports(&geometry).map_err(|e| e.to_string())
+}
+
+/// Summarise the exact envelope and return the ± axis limits.
+fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, (Vector3<f64>, Vector3<f64>)), String> {
+    let tol = Tolerances::default();
+    let z = Zonotope::torque(e, &tol).map_err(|e| e.to_string())?;
+    let c = Controllability::from_zonotope(e, &z, &tol);
+    let limits = z.axis_limits();
+    let ball = z.inscribed_radius();
+    let i_max = mass.inertia_diagonal().max();
+    Ok((
+        EnvelopeSummary {
+            facets: z.facets().len(),
+            vertices: z.vertices().len(),
+            volume_n3_m3: z.volume(),
+            guaranteed_torque_n_m: ball,
+            guaranteed_accel_rad_s2: ball / i_max,
+            rank: c.rank,
+            full_control: c.positive_span,
+            controllability: c.findings(e),
+        },
+        (limits.positive, limits.negative),
+    ))
+}
+
 /// Analyse a design.
 pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     let budget = feed::gas_budget(design)?;
@@ -168,10 +244,16 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             p.force_n = [f.x, f.y, f.z];
             p.torque_n_m = [t.x, t.y, t.z];
         }
-        let torques: Vec<_> = wrenches.iter().map(|w| w.1).collect();
-        let (pos, neg) = simple_sums(&torques);
+        let e = effectiveness(design, &mass, &ports).map_err(|e| AnalysisError::Allocation {
+            state: state.name.clone(),
+            reason: e,
+        })?;
+        let (envelope, limits) = envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
+            state: state.name.clone(),
+            reason: e,
+        })?;
         let required = required_torques(design, &mass, state.motor);
-        let authority = axis_authority(pos, neg, mass.inertia_diagonal(), &required);
+        let authority = axis_authority(limits.0, limits.1, mass.inertia_diagonal(), &required);
         let roll_to_pitch_ratio = authority[0].angular_accel_rad_s2 / authority[1].angular_accel_rad_s2;
         states.push(StateReport {
             name: state.name.clone(),
@@ -183,6 +265,7 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             mass,
             ports,
             required,
+            envelope,
             authority,
             roll_to_pitch_ratio,
             droop: at.droop,

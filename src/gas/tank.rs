@@ -182,7 +182,7 @@ pub struct BlowdownSettings {
     /// only sets the curve resolution).
     pub pressure_steps: usize,
     /// Temperature step of the two-phase walk, K. The trapezoidal entropy outflow term has an error
-    /// of order step²; 0.1 K changes the usable mass by less than 1e-5 relative against 0.02 K.
+    /// of order step²; 0.1 K is within 1e-4 relative of a 0.02 K walk (tested).
     pub two_phase_step_k: f64,
     /// Relative tolerance of the temperature solves.
     pub temperature_rel: f64,
@@ -614,6 +614,8 @@ fn adiabatic_blowdown(
     let mut p_cur = inv.supply_pressure_pa;
     let mut t_cur = inv.temperature_k;
     let mut end_state: Option<State> = None;
+    // Saturation temperature of the end pressure, found once when the walk first goes two-phase.
+    let mut t_end_sat: Option<f64> = None;
     loop {
         walk.steps += 1;
         if walk.steps > settings.max_steps {
@@ -626,9 +628,20 @@ fn adiabatic_blowdown(
             let old = eos::saturation(gas, t)?;
             let x_old = quality(vol / walk.mass, &old);
             let s_old = mix(x_old, old.liquid.entropy_j_kg_k, old.vapour.entropy_j_kg_k);
-            let t_end = eos::saturation_at_pressure(gas, p_end)
-                .map(|s| s.temperature_k)
-                .unwrap_or(t_triple);
+            let t_end = match t_end_sat {
+                Some(t) => t,
+                None => {
+                    // An end pressure below the triple-point pressure cannot be reached on the
+                    // saturation line: the walk then stops at the triple point.
+                    let t = match eos::saturation_at_pressure(gas, p_end) {
+                        Ok(s) => s.temperature_k,
+                        Err(EosError::OutOfRange { .. }) => t_triple,
+                        Err(e) => return Err(e.into()),
+                    };
+                    t_end_sat = Some(t);
+                    t
+                }
+            };
             let floor = t_end.max(t_triple);
             let mut t_new = (t - settings.two_phase_step_k).max(floor);
             let mut sat_new = eos::saturation(gas, t_new)?;
@@ -1018,6 +1031,50 @@ mod tests {
         assert_eq!(u.fill.phase, TankPhase::Supercritical);
         assert!(u.adiabatic.curve.iter().any(|p| p.liquid_mass_kg > 0.0));
         assert!(u.adiabatic.end_temperature_k < 260.0);
+    }
+
+    /// Supercritical CO2 from 350 K, 300 bar expanded isentropically to 100 bar: CoolProp 8.0.0
+    /// gives 313.59 K. The model gives 310.8 K: the cooling (36.4 K in the reference) is 8 %
+    /// too large because the isentrope runs close to the critical point, where PR's heat
+    /// capacity departure is poor. Allowed: 10 % of the reference cooling, 3.6 K. A known limit
+    /// of the adiabatic bound for near-critical CO2.
+    #[test]
+    fn co2_supercritical_isentrope_end_temperature() {
+        let fill = TankFill::by_pressure(Gas::CarbonDioxide, 1e-3, 300e5, 350.0);
+        let u = usable_gas(&fill, 100e5).unwrap();
+        let t = u.adiabatic.end_temperature_k;
+        assert!((t - 313.59).abs() < 0.1 * (350.0 - 313.59), "{t}");
+    }
+
+    /// One two-phase step conserves energy: m₁u₁ − m₀u₀ = h̄_v (m₁ − m₀) for a rigid adiabatic
+    /// tank with vapour leaving. The step is built from the entropy balance, so this checks the
+    /// closed-form update against the first law (residual of order ΔT², 1e-4 of the energy
+    /// drawn for a 0.1 K step).
+    #[test]
+    fn two_phase_step_conserves_energy() {
+        let inv = inventory(&co2_fill()).unwrap();
+        let vol = inv.volume_m3;
+        let old = eos::saturation(Gas::CarbonDioxide, 293.15).unwrap();
+        let new = eos::saturation(Gas::CarbonDioxide, 293.05).unwrap();
+        let x0 = quality(vol / inv.mass_kg, &old);
+        let s0 = mix(x0, old.liquid.entropy_j_kg_k, old.vapour.entropy_j_kg_k);
+        let m1 = boil_step(vol, inv.mass_kg, s0, &old, &new);
+        let x1 = quality(vol / m1, &new);
+        let u = |x: f64, s: &eos::Saturation| {
+            mix(
+                x,
+                s.liquid.internal_energy_j_kg(),
+                s.vapour.internal_energy_j_kg(),
+            )
+        };
+        let d_energy = m1 * u(x1, &new) - inv.mass_kg * u(x0, &old);
+        let outflow =
+            0.5 * (old.vapour.enthalpy_j_kg + new.vapour.enthalpy_j_kg) * (m1 - inv.mass_kg);
+        assert!(m1 < inv.mass_kg);
+        assert!(
+            (d_energy / outflow - 1.0).abs() < 1e-4,
+            "{d_energy} vs {outflow}"
+        );
     }
 
     #[test]

@@ -2,10 +2,10 @@
 
 pub mod chain;
 pub mod eos;
-pub mod tank;
 pub mod isentropic;
 pub mod nozzle;
 pub mod species;
+pub mod tank;
 pub mod valve;
 
 pub use isentropic::{FlowError, FlowTolerances};

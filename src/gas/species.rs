@@ -1,7 +1,7 @@
 //! The gases a cold-gas feed may carry and their constants.
 //!
 //! Critical constants, acentric factors and molar masses are the values used by
-//! the reference equations of state (NIST/CoolProp fluid files, from memory);
+//! the reference equations of state (checked against CoolProp 8.0.0);
 //! the tests of `gas::eos` check the model built on them against a reference
 //! property library, which is what matters for the user.
 
@@ -76,33 +76,35 @@ impl Gas {
 
     /// The constants of this gas.
     pub fn constants(self) -> GasConstants {
-        // Values from memory of the CoolProp / NIST reference fluid files.
+        // Values of the CoolProp 8.0.0 fluid files (PropsSI Tcrit, pcrit, acentric, M);
+        // molar masses of air, nitrogen and CO2 and the acentric factor of helium were
+        // corrected to those values after an earlier set written from memory.
         match self {
             Gas::Air => GasConstants {
                 critical_temperature_k: 132.5306,
                 critical_pressure_pa: 3.7860e6,
                 acentric_factor: 0.0335,
-                molar_mass_kg_mol: 28.965_86e-3,
+                molar_mass_kg_mol: 28.965_46e-3,
                 gamma: 1.400,
             },
             Gas::Nitrogen => GasConstants {
                 critical_temperature_k: 126.192,
                 critical_pressure_pa: 3.3958e6,
                 acentric_factor: 0.0372,
-                molar_mass_kg_mol: 28.013_4e-3,
+                molar_mass_kg_mol: 28.013_48e-3,
                 gamma: 1.400,
             },
             Gas::CarbonDioxide => GasConstants {
                 critical_temperature_k: 304.1282,
                 critical_pressure_pa: 7.3773e6,
                 acentric_factor: 0.22394,
-                molar_mass_kg_mol: 44.0095e-3,
+                molar_mass_kg_mol: 44.0098e-3,
                 gamma: 1.289,
             },
             Gas::Helium => GasConstants {
                 critical_temperature_k: 5.1953,
                 critical_pressure_pa: 0.228_32e6,
-                acentric_factor: -0.382,
+                acentric_factor: -0.383_54,
                 molar_mass_kg_mol: 4.002_602e-3,
                 gamma: 5.0 / 3.0,
             },

@@ -103,7 +103,12 @@ pub struct TankFill {
 
 impl TankFill {
     /// A fill given by pressure.
-    pub fn by_pressure(gas: Gas, volume_m3: f64, fill_pressure_pa: f64, temperature_k: f64) -> Self {
+    pub fn by_pressure(
+        gas: Gas,
+        volume_m3: f64,
+        fill_pressure_pa: f64,
+        temperature_k: f64,
+    ) -> Self {
         TankFill {
             gas,
             volume_m3,
@@ -124,7 +129,12 @@ impl TankFill {
 
     /// A fill given by fill ratio, kg of gas per litre of tank volume (CO2 practice: 0.6–0.68).
     pub fn by_fill_ratio(gas: Gas, volume_m3: f64, kg_per_litre: f64, temperature_k: f64) -> Self {
-        Self::by_mass(gas, volume_m3, kg_per_litre * volume_m3 * 1000.0, temperature_k)
+        Self::by_mass(
+            gas,
+            volume_m3,
+            kg_per_litre * volume_m3 * 1000.0,
+            temperature_k,
+        )
     }
 }
 
@@ -172,7 +182,7 @@ pub struct BlowdownSettings {
     /// only sets the curve resolution).
     pub pressure_steps: usize,
     /// Temperature step of the two-phase walk, K. The trapezoidal entropy outflow term has an error
-    /// of order step²; 0.1 K changes the usable mass by less than 1e-5 relative against 0.02 K.
+    /// of order step²; 0.1 K is within 1e-4 relative of a 0.02 K walk (tested).
     pub two_phase_step_k: f64,
     /// Relative tolerance of the temperature solves.
     pub temperature_rel: f64,
@@ -598,11 +608,14 @@ fn adiabatic_blowdown(
     };
     walk.push(m0, inv.supply_pressure_pa, inv.temperature_k, liquid0);
     // Mode: Some(temperature) while two-phase, None while single-phase.
-    let mut two_phase_t = matches!(inv.phase, TankPhase::TwoPhase { .. }).then_some(inv.temperature_k);
+    let mut two_phase_t =
+        matches!(inv.phase, TankPhase::TwoPhase { .. }).then_some(inv.temperature_k);
     let mut s_single = inv.specific_entropy_j_kg_k;
     let mut p_cur = inv.supply_pressure_pa;
     let mut t_cur = inv.temperature_k;
     let mut end_state: Option<State> = None;
+    // Saturation temperature of the end pressure, found once when the walk first goes two-phase.
+    let mut t_end_sat: Option<f64> = None;
     loop {
         walk.steps += 1;
         if walk.steps > settings.max_steps {
@@ -615,9 +628,20 @@ fn adiabatic_blowdown(
             let old = eos::saturation(gas, t)?;
             let x_old = quality(vol / walk.mass, &old);
             let s_old = mix(x_old, old.liquid.entropy_j_kg_k, old.vapour.entropy_j_kg_k);
-            let t_end = eos::saturation_at_pressure(gas, p_end)
-                .map(|s| s.temperature_k)
-                .unwrap_or(t_triple);
+            let t_end = match t_end_sat {
+                Some(t) => t,
+                None => {
+                    // An end pressure below the triple-point pressure cannot be reached on the
+                    // saturation line: the walk then stops at the triple point.
+                    let t = match eos::saturation_at_pressure(gas, p_end) {
+                        Ok(s) => s.temperature_k,
+                        Err(EosError::OutOfRange { .. }) => t_triple,
+                        Err(e) => return Err(e.into()),
+                    };
+                    t_end_sat = Some(t);
+                    t
+                }
+            };
             let floor = t_end.max(t_triple);
             let mut t_new = (t - settings.two_phase_step_k).max(floor);
             let mut sat_new = eos::saturation(gas, t_new)?;
@@ -687,9 +711,18 @@ fn adiabatic_blowdown(
                     let p_star = dome_entry(gas, s_single, p, p_prev)?;
                     let sat = eos::saturation_at_pressure(gas, p_star)?;
                     let x = quality_from_entropy(s_single, &sat);
-                    let v = mix(x, 1.0 / sat.liquid.density_kg_m3, 1.0 / sat.vapour.density_kg_m3);
+                    let v = mix(
+                        x,
+                        1.0 / sat.liquid.density_kg_m3,
+                        1.0 / sat.vapour.density_kg_m3,
+                    );
                     walk.mass = vol / v;
-                    walk.push(m0, sat.pressure_pa, sat.temperature_k, (1.0 - x) * walk.mass);
+                    walk.push(
+                        m0,
+                        sat.pressure_pa,
+                        sat.temperature_k,
+                        (1.0 - x) * walk.mass,
+                    );
                     two_phase_t = Some(sat.temperature_k);
                     entered_dome = true;
                     break;
@@ -747,7 +780,13 @@ fn quality_from_entropy(s: f64, sat: &eos::Saturation) -> f64 {
 /// Balances: `V = M·(v_l + x·(v_v − v_l))` and `M·s_new − m·s_old = s̄_v·(M − m)` with
 /// `s_new = s_l + x·(s_v − s_l)` and `s̄_v` the mean outflow entropy over the step. Eliminating x
 /// leaves an equation linear in M.
-fn boil_step(vol: f64, m_old: f64, s_old: f64, old: &eos::Saturation, new: &eos::Saturation) -> f64 {
+fn boil_step(
+    vol: f64,
+    m_old: f64,
+    s_old: f64,
+    old: &eos::Saturation,
+    new: &eos::Saturation,
+) -> f64 {
     let vl = 1.0 / new.liquid.density_kg_m3;
     let vv = 1.0 / new.vapour.density_kg_m3;
     let (sl, sv) = (new.liquid.entropy_j_kg_k, new.vapour.entropy_j_kg_k);
@@ -779,4 +818,295 @@ fn dome_entry(gas: Gas, s0: f64, p_in: f64, p_out: f64) -> Result<f64, TankError
         }
     }
     Ok(a)
+}
+
+#[cfg(test)]
+mod tests {
+    //! Reference values: CoolProp 8.0.0 (PyPI), `PropsSI`; the CO2 two-phase references come from
+    //! the same vapour-withdrawal balance integrated with CoolProp saturation properties in 0.01 K
+    //! steps, so they check this module's property model and integration, not the balance itself.
+    use super::*;
+
+    fn n2_fill() -> TankFill {
+        TankFill::by_pressure(Gas::Nitrogen, 1e-3, 300e5, 300.0)
+    }
+
+    fn co2_fill() -> TankFill {
+        TankFill::by_fill_ratio(Gas::CarbonDioxide, 0.5e-3, 0.6, 293.15)
+    }
+
+    /// Nitrogen, 1 L at 300 bar and 300 K, blown down to 20 bar. CoolProp 8.0.0: fill 0.294781 kg,
+    /// isothermal usable 0.272258 kg, isentropic end 135.124 K with usable 0.234002 kg.
+    /// The published uncertainties must cover the reference; the end temperature within 2 K
+    /// (the PR entropy departure is within 3 % of the reference, worth about 1 K here).
+    #[test]
+    fn nitrogen_blowdown_matches_reference() {
+        let u = usable_gas(&n2_fill(), 20e5).unwrap();
+        assert!((u.fill.mass_kg - 0.294_781).abs() <= u.fill.mass_uncertainty_kg);
+        assert_eq!(u.fill.phase, TankPhase::Supercritical);
+        let iso = &u.isothermal;
+        assert!(
+            (iso.usable_mass_kg - 0.272_258).abs() <= iso.usable_mass_uncertainty_kg,
+            "{} ± {}",
+            iso.usable_mass_kg,
+            iso.usable_mass_uncertainty_kg
+        );
+        let adi = &u.adiabatic;
+        assert!(
+            (adi.end_temperature_k - 135.124).abs() < 2.0,
+            "{}",
+            adi.end_temperature_k
+        );
+        // The end density at 135 K carries the gas-phase uncertainty plus the 1 % density
+        // change of a 1 K temperature error (ρ ∝ 1/T): allow the published uncertainty + 1 %.
+        assert!(
+            (adi.usable_mass_kg - 0.234_002).abs()
+                <= adi.usable_mass_uncertainty_kg + 0.01 * adi.usable_mass_kg,
+            "{} ± {}",
+            adi.usable_mass_kg,
+            adi.usable_mass_uncertainty_kg
+        );
+        assert_eq!(adi.end, BlowdownEnd::EndPressure);
+        assert!(!adi.dry_ice_warning);
+    }
+
+    /// Helium, 1 L at 300 bar and 300 K to 20 bar. CoolProp 8.0.0: fill 0.0423108 kg, isothermal
+    /// usable 0.0391315 kg, isentropic end 102.306 K, usable 0.0331528 kg. End temperature
+    /// within 3 K (1 % of the temperature swing of 200 K), usable masses as for nitrogen.
+    #[test]
+    fn helium_blowdown_matches_reference() {
+        let u = usable_gas(
+            &TankFill::by_pressure(Gas::Helium, 1e-3, 300e5, 300.0),
+            20e5,
+        )
+        .unwrap();
+        assert!((u.fill.mass_kg - 0.042_310_8).abs() <= u.fill.mass_uncertainty_kg);
+        let iso = &u.isothermal;
+        assert!((iso.usable_mass_kg - 0.039_131_5).abs() <= iso.usable_mass_uncertainty_kg);
+        let adi = &u.adiabatic;
+        assert!(
+            (adi.end_temperature_k - 102.306).abs() < 3.0,
+            "{}",
+            adi.end_temperature_k
+        );
+        assert!(
+            (adi.usable_mass_kg - 0.033_152_8).abs()
+                <= adi.usable_mass_uncertainty_kg + 0.03 * adi.usable_mass_kg,
+            "{}",
+            adi.usable_mass_kg
+        );
+    }
+
+    /// CO2, 0.5 L at fill ratio 0.6 kg/L and 293.15 K. CoolProp 8.0.0: vapour pressure 57.29 bar,
+    /// liquid 0.270932 kg filling 70.06 % of the volume. Vapour pressure within 1 %; liquid
+    /// mass within 5 % (propagating the published 15 % liquid and 3 % vapour density
+    /// uncertainties through m_l = (m − ρ_v V)/(1 − ρ_v/ρ_l) gives 4.5 %; seen +2.7 %, the
+    /// light PR liquid leaving less room for vapour); liquid volume fraction within the
+    /// published liquid-density uncertainty above 275 K, 15 % (PR's saturated liquid at 293 K is
+    /// 7.7 % light, so the model shows about 78 % full).
+    #[test]
+    fn co2_two_phase_fill_matches_reference() {
+        let inv = inventory(&co2_fill()).unwrap();
+        assert!((inv.mass_kg - 0.3).abs() < 1e-12);
+        assert!((inv.supply_pressure_pa / 5.729_05e6 - 1.0).abs() < 0.01);
+        match inv.phase {
+            TankPhase::TwoPhase {
+                liquid_mass_kg,
+                liquid_volume_fraction,
+            } => {
+                assert!(
+                    (liquid_volume_fraction / 0.700_637 - 1.0).abs() < 0.15,
+                    "{liquid_volume_fraction}"
+                );
+                assert!(
+                    (liquid_mass_kg / 0.270_932 - 1.0).abs() < 0.05,
+                    "{liquid_mass_kg}"
+                );
+            }
+            other => panic!("expected two-phase, got {other:?}"),
+        }
+    }
+
+    /// The same CO2 tank to 20 bar. Isothermal usable (CoolProp 8.0.0): 0.279614 kg; within the
+    /// published uncertainty. Adiabatic with vapour withdrawal: end 253.64 K, usable 0.102947 kg;
+    /// end temperature within 0.5 K (the vapour-pressure error moves Tsat by ~0.2 K), usable mass
+    /// within 10 % (the boil-off is set by latent heat against the liquid's sensible heat; PR's
+    /// latent heat is within 6 % and its liquid entropy slope within 15 %).
+    #[test]
+    fn co2_blowdown_matches_reference() {
+        let u = usable_gas(&co2_fill(), 20e5).unwrap();
+        let iso = &u.isothermal;
+        assert!(
+            (iso.usable_mass_kg - 0.279_614).abs() <= iso.usable_mass_uncertainty_kg,
+            "{} ± {}",
+            iso.usable_mass_kg,
+            iso.usable_mass_uncertainty_kg
+        );
+        let adi = &u.adiabatic;
+        assert_eq!(adi.end, BlowdownEnd::EndPressure);
+        assert!(
+            (adi.end_temperature_k - 253.647).abs() < 0.5,
+            "{}",
+            adi.end_temperature_k
+        );
+        assert!(
+            (adi.usable_mass_kg / 0.102_947 - 1.0).abs() < 0.10,
+            "{}",
+            adi.usable_mass_kg
+        );
+        assert!(adi.usable_mass_kg < iso.usable_mass_kg);
+        let last = adi.curve.last().unwrap();
+        assert!(last.liquid_mass_kg > 0.0, "liquid should remain at 253 K");
+    }
+
+    /// Down to 3 bar the adiabatic CO2 walk meets the triple point first. CoolProp-based
+    /// integration: at 216.6 K 0.151106 kg has left and 0.1437 kg of liquid remains. Usable mass
+    /// within 10 % as above.
+    #[test]
+    fn co2_adiabatic_walk_stops_at_the_triple_point() {
+        let u = usable_gas(&co2_fill(), 3e5).unwrap();
+        let adi = &u.adiabatic;
+        assert_eq!(adi.end, BlowdownEnd::TriplePoint);
+        assert!(adi.dry_ice_warning);
+        assert!((adi.end_temperature_k - eos::triple_point_k(Gas::CarbonDioxide)).abs() < 1e-9);
+        assert!(
+            (adi.usable_mass_kg / 0.151_106 - 1.0).abs() < 0.10,
+            "{}",
+            adi.usable_mass_kg
+        );
+        // The isothermal limit reaches the end pressure with all liquid boiled.
+        assert_eq!(u.isothermal.end, BlowdownEnd::EndPressure);
+        assert_eq!(u.isothermal.curve.last().unwrap().liquid_mass_kg, 0.0);
+    }
+
+    /// Halving the two-phase temperature step must not move the answer (1e-4 relative).
+    #[test]
+    fn two_phase_step_is_converged() {
+        let coarse = usable_gas(&co2_fill(), 20e5)
+            .unwrap()
+            .adiabatic
+            .usable_mass_kg;
+        let fine = usable_gas_with(
+            &co2_fill(),
+            20e5,
+            &BlowdownSettings {
+                two_phase_step_k: 0.02,
+                ..BlowdownSettings::default()
+            },
+        )
+        .unwrap()
+        .adiabatic
+        .usable_mass_kg;
+        assert!((coarse / fine - 1.0).abs() < 1e-4, "{coarse} vs {fine}");
+    }
+
+    /// Curves start at the fill, expel mass monotonically while the pressure falls, and the
+    /// adiabatic limit never delivers more than the isothermal one.
+    #[test]
+    fn curves_are_monotonic() {
+        for fill in [
+            n2_fill(),
+            co2_fill(),
+            TankFill::by_pressure(Gas::Argon, 2e-4, 200e5, 280.0),
+        ] {
+            let u = usable_gas(&fill, 15e5).unwrap();
+            for b in [&u.isothermal, &u.adiabatic] {
+                assert_eq!(b.curve[0].mass_expelled_kg, 0.0);
+                for w in b.curve.windows(2) {
+                    assert!(w[1].mass_expelled_kg >= w[0].mass_expelled_kg - 1e-12);
+                    assert!(w[1].pressure_pa <= w[0].pressure_pa * (1.0 + 1e-9));
+                }
+                let last = b.curve.last().unwrap();
+                assert!((last.mass_expelled_kg - b.usable_mass_kg).abs() < 1e-12);
+            }
+            assert!(u.adiabatic.usable_mass_kg <= u.isothermal.usable_mass_kg);
+        }
+    }
+
+    /// Supercritical CO2 (320 K, 0.45 kg/L) blown down adiabatically crosses into the dome.
+    #[test]
+    fn supercritical_co2_enters_the_dome() {
+        let fill = TankFill::by_fill_ratio(Gas::CarbonDioxide, 1e-3, 0.45, 320.0);
+        let u = usable_gas(&fill, 20e5).unwrap();
+        assert_eq!(u.fill.phase, TankPhase::Supercritical);
+        assert!(u.adiabatic.curve.iter().any(|p| p.liquid_mass_kg > 0.0));
+        assert!(u.adiabatic.end_temperature_k < 260.0);
+    }
+
+    /// Supercritical CO2 from 350 K, 300 bar expanded isentropically to 100 bar: CoolProp 8.0.0
+    /// gives 313.59 K. The model gives 310.8 K: the cooling (36.4 K in the reference) is 8 %
+    /// too large because the isentrope runs close to the critical point, where PR's heat
+    /// capacity departure is poor. Allowed: 10 % of the reference cooling, 3.6 K. A known limit
+    /// of the adiabatic bound for near-critical CO2.
+    #[test]
+    fn co2_supercritical_isentrope_end_temperature() {
+        let fill = TankFill::by_pressure(Gas::CarbonDioxide, 1e-3, 300e5, 350.0);
+        let u = usable_gas(&fill, 100e5).unwrap();
+        let t = u.adiabatic.end_temperature_k;
+        assert!((t - 313.59).abs() < 0.1 * (350.0 - 313.59), "{t}");
+    }
+
+    /// One two-phase step conserves energy: m₁u₁ − m₀u₀ = h̄_v (m₁ − m₀) for a rigid adiabatic
+    /// tank with vapour leaving. The step is built from the entropy balance, so this checks the
+    /// closed-form update against the first law (residual of order ΔT², 1e-4 of the energy
+    /// drawn for a 0.1 K step).
+    #[test]
+    fn two_phase_step_conserves_energy() {
+        let inv = inventory(&co2_fill()).unwrap();
+        let vol = inv.volume_m3;
+        let old = eos::saturation(Gas::CarbonDioxide, 293.15).unwrap();
+        let new = eos::saturation(Gas::CarbonDioxide, 293.05).unwrap();
+        let x0 = quality(vol / inv.mass_kg, &old);
+        let s0 = mix(x0, old.liquid.entropy_j_kg_k, old.vapour.entropy_j_kg_k);
+        let m1 = boil_step(vol, inv.mass_kg, s0, &old, &new);
+        let x1 = quality(vol / m1, &new);
+        let u = |x: f64, s: &eos::Saturation| {
+            mix(
+                x,
+                s.liquid.internal_energy_j_kg(),
+                s.vapour.internal_energy_j_kg(),
+            )
+        };
+        let d_energy = m1 * u(x1, &new) - inv.mass_kg * u(x0, &old);
+        let outflow =
+            0.5 * (old.vapour.enthalpy_j_kg + new.vapour.enthalpy_j_kg) * (m1 - inv.mass_kg);
+        assert!(m1 < inv.mass_kg);
+        assert!(
+            (d_energy / outflow - 1.0).abs() < 1e-4,
+            "{d_energy} vs {outflow}"
+        );
+    }
+
+    #[test]
+    fn impossible_fills_are_errors() {
+        let co2 = Gas::CarbonDioxide;
+        assert!(matches!(
+            inventory(&TankFill::by_pressure(co2, 1e-3, 80e5, 293.15)),
+            Err(TankError::CompressedLiquid { .. })
+        ));
+        assert!(matches!(
+            inventory(&TankFill::by_fill_ratio(co2, 1e-3, 0.9, 293.15)),
+            Err(TankError::LiquidFull { .. })
+        ));
+        assert!(matches!(
+            usable_gas(&n2_fill(), 400e5),
+            Err(TankError::EndPressureNotBelowSupply { .. })
+        ));
+        assert!(matches!(
+            inventory(&TankFill::by_pressure(Gas::Air, f64::NAN, 200e5, 300.0)),
+            Err(TankError::BadInput { .. })
+        ));
+        assert!(matches!(
+            inventory(&TankFill::by_mass(Gas::Air, 1e-3, -1.0, 300.0)),
+            Err(TankError::BadInput { .. })
+        ));
+        // CO2 vapour below its vapour pressure is a valid gas fill.
+        let inv = inventory(&TankFill::by_pressure(co2, 1e-3, 40e5, 293.15)).unwrap();
+        assert_eq!(inv.phase, TankPhase::Gas);
+    }
+
+    #[test]
+    fn end_pressure_adds_the_dropout_margin() {
+        assert_eq!(end_pressure_pa(10e5, 3e5), 13e5);
+    }
 }

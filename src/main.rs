@@ -25,6 +25,18 @@ fn main() -> ExitCode {
 
 fn run(cli: Cli) -> Result<()> {
     match cli.command {
+        Command::Allocate {
+            layout,
+            torque,
+            state,
+            side_force,
+            json,
+        } => {
+            let design = layout::load(&layout)?;
+            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
+            print!("{}", cli::allocate::run(&design, &analysis, &torque, state.as_deref(), side_force.as_deref(), json)?);
+            Ok(())
+        }
         Command::Analyze { layout, json, out } => {
             let design = layout::load(&layout)?;
             let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;

@@ -101,3 +101,28 @@ fn readme_commands_work() {
     }
     assert!(ran >= 1, "no README commands found");
 }
+
+#[test]
+fn allocate_meets_a_command_inside_the_envelope_and_saturates_outside() {
+    for layout in ["layouts/heron-54.toml", "layouts/osprey-98.toml"] {
+        let text = run_ok(&["allocate", layout, "--torque", "10 mN m,20 mN m,-5 mN m", "--json"]);
+        let v: serde_json::Value = serde_json::from_str(&text).unwrap();
+        let got: Vec<f64> = v["achieved_torque_n_m"].as_array().unwrap().iter().map(|x| x.as_f64().unwrap()).collect();
+        // The allocator's equality rows hold to its primal tolerance (1e-9 relative): 1e-9 N m is ample.
+        for (g, want) in got.iter().zip([0.010, 0.020, -0.005]) {
+            assert!((g - want).abs() < 1e-9, "{layout}: {got:?}");
+        }
+        assert_eq!(v["saturated"], false);
+        for d in v["duty"].as_array().unwrap() {
+            let u = d["duty"].as_f64().unwrap();
+            assert!((0.0..=1.0).contains(&u));
+        }
+        let text = run_ok(&["allocate", layout, "--torque", "50 N m,0,0", "--state", "burnout", "--json"]);
+        let v: serde_json::Value = serde_json::from_str(&text).unwrap();
+        assert_eq!(v["saturated"], true);
+        assert!(v["scale"].as_f64().unwrap() < 1.0);
+    }
+    let out = portwright().args(["allocate", "layouts/heron-54.toml", "--torque", "1 kg,0,0"]).output().unwrap();
+    assert!(!out.status.success());
+    assert!(String::from_utf8_lossy(&out.stderr).contains("--torque"));
+}

@@ -1,5 +1,6 @@
 //! Command-line definitions and the glue from arguments to library calls.
 
+pub mod allocate;
 pub mod output;
 
 use clap::{Parser, Subcommand};
@@ -27,5 +28,22 @@ pub enum Command {
         /// Also write the report to this file.
         #[arg(long)]
         out: Option<PathBuf>,
+    },
+    /// Least-gas duty cycles for a commanded torque.
+    Allocate {
+        /// Layout file (TOML).
+        layout: PathBuf,
+        /// Torque about roll, pitch and yaw, each with a unit, e.g. "20 mN m,0,-5 mN m".
+        #[arg(long, allow_hyphen_values = true)]
+        torque: String,
+        /// Flight state (default: the first in the file).
+        #[arg(long)]
+        state: Option<String>,
+        /// Largest side force allowed, e.g. "0.2 N"; "0 N" asks for pure couples.
+        #[arg(long)]
+        side_force: Option<String>,
+        /// Print JSON instead of a table.
+        #[arg(long)]
+        json: bool,
     },
 }

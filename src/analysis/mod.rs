@@ -11,6 +11,7 @@
 pub mod authority;
 pub mod feed;
 pub mod findings;
+pub mod score;
 
 use crate::allocation::controllability::Controllability;
 use crate::allocation::effectiveness::{Effectiveness, PortGeometry};

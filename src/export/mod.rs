@@ -143,6 +143,7 @@ pub(crate) fn fmt3(v: f64) -> String {
 mod tests {
     use super::*;
     use approx::assert_relative_eq;
+    use crate::model::NoseShape;
 
     #[test]
     fn profiles_start_at_the_tip_and_meet_the_tube() {

@@ -78,7 +78,9 @@ fn bench(c: &mut Criterion) {
     group.bench_function("min_gas_8_ports", |b| {
         b.iter(|| {
             i = (i + 1) % cmds.len();
-            alloc.allocate_into(black_box(&cmds[i]), &mut out).expect("solves");
+            alloc
+                .allocate_into(black_box(&cmds[i]), &mut out)
+                .expect("solves");
             black_box(out.gas_rate_kg_s)
         })
     });
@@ -86,7 +88,9 @@ fn bench(c: &mut Criterion) {
     group.bench_function("min_gas_8_ports_saturated", |b| {
         b.iter(|| {
             i = (i + 1) % far.len();
-            alloc.allocate_into(black_box(&far[i]), &mut out).expect("solves");
+            alloc
+                .allocate_into(black_box(&far[i]), &mut out)
+                .expect("solves");
             black_box(out.gas_rate_kg_s)
         })
     });
@@ -95,7 +99,9 @@ fn bench(c: &mut Criterion) {
     group.bench_function("min_gas_8_ports_pure_couple", |b| {
         b.iter(|| {
             i = (i + 1) % cmds.len();
-            alloc.allocate_into(black_box(&cmds[i]), &mut out).expect("solves");
+            alloc
+                .allocate_into(black_box(&cmds[i]), &mut out)
+                .expect("solves");
             black_box(out.gas_rate_kg_s)
         })
     });
@@ -113,7 +119,8 @@ fn bench(c: &mut Criterion) {
     group.bench_function("region_map_8_ports", |b| {
         b.iter(|| {
             i = (i + 1) % cmds.len();
-            map.evaluate_into(black_box(&cmds[i]), &mut out).expect("covered");
+            map.evaluate_into(black_box(&cmds[i]), &mut out)
+                .expect("covered");
             black_box(out.gas_rate_kg_s)
         })
     });
@@ -139,7 +146,11 @@ fn bench(c: &mut Criterion) {
     for a in 0..33 {
         for b in 0..33 {
             for c in 0..33 {
-                grid.push(Vector3::new(half.x * step(a), half.y * step(b), half.z * step(c)));
+                grid.push(Vector3::new(
+                    half.x * step(a),
+                    half.y * step(b),
+                    half.z * step(c),
+                ));
             }
         }
     }

@@ -287,3 +287,58 @@ impl SideForceEnvelope {
             .fold(f64::INFINITY, f64::min)
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::allocation::testkit::{inside_command, random_layout, Rng};
+    use crate::allocation::{MinGasAllocator, Zonotope};
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn free_envelope_matches_the_zonotope() {
+        // With no side-force rows the LP support value is the zonotope's closed form
+        // Σ max(0, bᵢ·d); microlp is accurate to about 1e-9 here, hence 1e-8.
+        let tol = Tolerances::default();
+        let e = random_layout(&mut Rng(21), 9);
+        let z = Zonotope::torque(&e, &tol).expect("builds");
+        let env = SideForceEnvelope::new(&e, SideForceLimit::Free, 40).expect("solves");
+        for ((d, h), p) in env.planes.iter().zip(&env.points) {
+            assert_relative_eq!(*h, z.support(d), max_relative = 1e-8, epsilon = 1e-12);
+            assert!(z.contains(p));
+        }
+        let dirs = fibonacci_directions(500);
+        let mean: Vector3<f64> = dirs.iter().sum::<Vector3<f64>>() / 500.0;
+        assert!(mean.norm() < 1e-2, "Fibonacci set is balanced");
+    }
+
+    #[test]
+    fn side_limited_ray_maxima_match_the_simplex() {
+        // The ray LP (microlp) against the dedicated simplex's saturation scale for
+        // a command far outside: s·|τ| is the same ray maximum. 1e-8 relative for
+        // microlp's tolerance. The outer plane approximation can only be larger.
+        let tol = Tolerances::default();
+        let mut rng = Rng(31);
+        for case in 0..8 {
+            let e = random_layout(&mut rng, 6 + case);
+            for side in [
+                SideForceLimit::Bounded { limit_n: 0.3 },
+                SideForceLimit::PureCouple,
+            ] {
+                let env = SideForceEnvelope::new(&e, side, 60).expect("solves");
+                let mut a = MinGasAllocator::new(&e, side, &tol).expect("setup");
+                for _ in 0..3 {
+                    let d = inside_command(&mut rng, &e).normalize();
+                    let t = max_along(&e, &d, side).expect("solves");
+                    let big = 10.0 * e.torque().abs().max() * e.len() as f64;
+                    let got = a.allocate(&(d * big)).expect("solves");
+                    assert_relative_eq!(got.scale * big, t, max_relative = 1e-8, epsilon = 1e-12);
+                    assert!(env.outer_max_along(&d) >= t * (1.0 - 1e-9));
+                    if let SideForceLimit::Bounded { limit_n } = side {
+                        assert!(got.force.y.abs() <= limit_n * (1.0 + 1e-9));
+                    }
+                }
+            }
+        }
+    }
+}

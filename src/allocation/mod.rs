@@ -15,6 +15,32 @@
 //! - [`onoff`]: least-gas on/off valve sets for the 26 per-axis commands.
 //!
 //! All thresholds live in [`Tolerances`].
+//!
+//! ```
+//! use nalgebra::Vector3;
+//! use portwright::allocation::{
+//!     Effectiveness, MinGasAllocator, PortGeometry, SideForceLimit, Tolerances, Zonotope,
+//! };
+//! // Two tangential ports at the CG station, 27 mm off the axis, 1 N each: pure +roll.
+//! let port = |name: &str, y: f64, dir: Vector3<f64>| PortGeometry {
+//!     name: name.into(),
+//!     position_m: Vector3::new(0.0, y, 0.0),
+//!     direction: dir,
+//!     thrust_n: 1.0,
+//!     mass_flow_kg_s: 2e-3,
+//! };
+//! let e = Effectiveness::from_ports(&[
+//!     port("a", 0.027, Vector3::z()),
+//!     port("b", -0.027, -Vector3::z()),
+//! ])?;
+//! let tol = Tolerances::default();
+//! let z = Zonotope::torque(&e, &tol)?;
+//! assert!((z.max_along(&Vector3::x()) - 0.054).abs() < 1e-12);
+//! let mut alloc = MinGasAllocator::new(&e, SideForceLimit::PureCouple, &tol)?;
+//! let a = alloc.allocate(&Vector3::new(0.027, 0.0, 0.0))?;
+//! assert!((a.duty[0] - 0.5).abs() < 1e-12 && (a.gas_rate_kg_s - 2e-3).abs() < 1e-15);
+//! # Ok::<(), Box<dyn std::error::Error>>(())
+//! ```
 
 pub mod controllability;
 pub mod effectiveness;

@@ -16,6 +16,10 @@
 //! - Phase I uses one artificial per row, signed so that it starts non-negative.
 //!   After Phase I the artificials are fixed to [0, 0]; any that stay basic at zero
 //!   are harmless and leave at the first pivot that moves them.
+//! - A warm start reuses the previous basis. When only the command changed the
+//!   old optimum is still dual feasible, so a bounded dual simplex restores
+//!   primal feasibility in a few pivots (or proves the program infeasible); a
+//!   basis that is neither primal nor dual feasible falls back to a cold start.
 //! - Pricing is Dantzig's largest reduced cost; after a run of degenerate pivots
 //!   the solver switches to Bland's smallest-index rule until it makes progress,
 //!   which rules out cycling.
@@ -217,15 +221,40 @@ impl BoundedSimplex {
     /// Solves the current program.
     pub fn solve(&mut self, start: Start) -> Result<SimplexSolution, SimplexError> {
         let mut iterations = 0;
-        if start == Start::Warm && self.has_basis && self.try_warm() {
-            self.load_phase_two();
-            iterations += self.iterate()?;
-            let objective = self.finish()?;
-            return Ok(SimplexSolution {
-                objective,
-                iterations,
-                warm: true,
-            });
+        if start == Start::Warm && self.has_basis {
+            let primal_ok = self.try_warm();
+            if self.has_basis {
+                self.load_phase_two();
+                let ready = if primal_ok {
+                    true
+                } else if self.dual_feasible() {
+                    // The previous optimum stays dual feasible when only the data
+                    // on the right changed (a new command): the dual simplex walks
+                    // back to primal feasibility in a few pivots, or proves there is
+                    // none.
+                    match self.dual_iterate() {
+                        Ok(k) => {
+                            iterations += k;
+                            true
+                        }
+                        Err(SimplexError::Infeasible { residual }) => {
+                            return Err(SimplexError::Infeasible { residual });
+                        }
+                        Err(_) => false,
+                    }
+                } else {
+                    false
+                };
+                if ready {
+                    iterations += self.iterate()?;
+                    let objective = self.finish()?;
+                    return Ok(SimplexSolution {
+                        objective,
+                        iterations,
+                        warm: true,
+                    });
+                }
+            }
         }
         self.cold_phase_one();
         iterations += self.iterate()?;
@@ -321,6 +350,159 @@ impl BoundedSimplex {
             .all(|&j| self.x[j] >= self.lower[j] - tol && self.x[j] <= self.upper[j] + tol)
     }
 
+    /// True when every movable non-basic variable has a reduced cost of the right
+    /// sign for its bound (computes the duals as a side effect).
+    fn dual_feasible(&mut self) -> bool {
+        self.compute_duals();
+        let m = self.m;
+        (0..self.n + m).all(|j| {
+            if self.position[j] != NOT_BASIC || self.upper[j] - self.lower[j] <= 0.0 {
+                return true;
+            }
+            let d = self.reduced_cost(j);
+            if self.at_upper[j] {
+                d <= self.tol.optimality
+            } else {
+                d >= -self.tol.optimality
+            }
+        })
+    }
+
+    fn compute_duals(&mut self) {
+        let m = self.m;
+        for k in 0..m {
+            let mut s = 0.0;
+            for i in 0..m {
+                s += self.phase_cost[self.basis[i]] * self.binv[i * m + k];
+            }
+            self.y[k] = s;
+        }
+    }
+
+    fn reduced_cost(&self, j: usize) -> f64 {
+        let m = self.m;
+        let col = &self.a[j * m..(j + 1) * m];
+        self.phase_cost[j] - self.y.iter().zip(col).map(|(y, a)| y * a).sum::<f64>()
+    }
+
+    /// Dual simplex from a dual-feasible basis: the most violated basic variable
+    /// leaves at its violated bound; the entering variable is the one whose
+    /// reduced cost reaches zero first, which keeps the basis dual feasible.
+    fn dual_iterate(&mut self) -> Result<usize, SimplexError> {
+        let (m, n) = (self.m, self.n);
+        let mut iterations = 0;
+        let mut since_refactor = 0;
+        loop {
+            if iterations >= self.tol.max_iterations {
+                return Err(SimplexError::IterationLimit(iterations));
+            }
+            let mut r = NOT_BASIC;
+            let mut worst = self.tol.primal_feasibility;
+            for i in 0..m {
+                let j = self.basis[i];
+                let v = (self.lower[j] - self.x[j]).max(self.x[j] - self.upper[j]);
+                if v > worst {
+                    worst = v;
+                    r = i;
+                }
+            }
+            if r == NOT_BASIC {
+                return Ok(iterations);
+            }
+            let out = self.basis[r];
+            let to_upper = self.x[out] > self.upper[out];
+            let target = if to_upper {
+                self.upper[out]
+            } else {
+                self.lower[out]
+            };
+            self.compute_duals();
+            let mut q = NOT_BASIC;
+            let mut best_ratio = f64::INFINITY;
+            let mut best_alpha = 0.0;
+            for j in 0..n + m {
+                if self.position[j] != NOT_BASIC || self.upper[j] - self.lower[j] <= 0.0 {
+                    continue;
+                }
+                let mut alpha_rj = 0.0;
+                for k in 0..m {
+                    alpha_rj += self.binv[r * m + k] * self.a[j * m + k];
+                }
+                // x_r moves by −alpha_rj per unit increase of x_j.
+                let wants = if to_upper { alpha_rj } else { -alpha_rj };
+                let eligible = if self.at_upper[j] {
+                    wants < -self.tol.pivot
+                } else {
+                    wants > self.tol.pivot
+                };
+                if !eligible {
+                    continue;
+                }
+                let ratio = self.reduced_cost(j).abs() / alpha_rj.abs();
+                let tie = self.tol.ratio_tie * (1.0 + ratio);
+                if ratio < best_ratio - tie
+                    || (ratio <= best_ratio + tie && alpha_rj.abs() > best_alpha)
+                {
+                    best_ratio = best_ratio.min(ratio);
+                    best_alpha = alpha_rj.abs();
+                    q = j;
+                }
+            }
+            if q == NOT_BASIC {
+                return Err(SimplexError::Infeasible { residual: worst });
+            }
+            for i in 0..m {
+                let mut s = 0.0;
+                for k in 0..m {
+                    s += self.binv[i * m + k] * self.a[q * m + k];
+                }
+                self.alpha[i] = s;
+            }
+            let t = (self.x[out] - target) / self.alpha[r];
+            self.x[q] += t;
+            for i in 0..m {
+                let j = self.basis[i];
+                self.x[j] -= t * self.alpha[i];
+            }
+            self.x[out] = target;
+            self.at_upper[out] = to_upper;
+            self.position[out] = NOT_BASIC;
+            self.basis[r] = q;
+            self.position[q] = r;
+            self.at_upper[q] = false;
+            self.pivot_inverse(r);
+            iterations += 1;
+            since_refactor += 1;
+            if since_refactor >= self.tol.refactor_interval {
+                since_refactor = 0;
+                if !self.refactor() {
+                    self.has_basis = false;
+                    return Err(SimplexError::SingularBasis);
+                }
+                self.recompute_basic();
+            }
+        }
+    }
+
+    /// Replaces basis column r in the explicit inverse, using `alpha` = B⁻¹a_q.
+    fn pivot_inverse(&mut self, r: usize) {
+        let m = self.m;
+        let piv = self.alpha[r];
+        for k in 0..m {
+            self.binv[r * m + k] /= piv;
+        }
+        for i in 0..m {
+            if i != r {
+                let f = self.alpha[i];
+                if f != 0.0 {
+                    for k in 0..m {
+                        self.binv[i * m + k] -= f * self.binv[r * m + k];
+                    }
+                }
+            }
+        }
+    }
+
     /// Main loop shared by both phases; returns the number of iterations.
     fn iterate(&mut self) -> Result<usize, SimplexError> {
         let (m, n) = (self.m, self.n);
@@ -333,14 +515,7 @@ impl BoundedSimplex {
                 self.has_basis = false;
                 return Err(SimplexError::IterationLimit(iterations));
             }
-            // Duals yᵀ = c_Bᵀ B⁻¹.
-            for k in 0..m {
-                let mut s = 0.0;
-                for i in 0..m {
-                    s += self.phase_cost[self.basis[i]] * self.binv[i * m + k];
-                }
-                self.y[k] = s;
-            }
+            self.compute_duals();
             let bland = degenerate_run >= self.tol.degenerate_run_limit;
             let mut entering = NOT_BASIC;
             let mut best = 0.0;
@@ -348,9 +523,7 @@ impl BoundedSimplex {
                 if self.position[j] != NOT_BASIC || self.upper[j] - self.lower[j] <= 0.0 {
                     continue;
                 }
-                let col = &self.a[j * m..(j + 1) * m];
-                let d = self.phase_cost[j]
-                    - self.y.iter().zip(col).map(|(y, a)| y * a).sum::<f64>();
+                let d = self.reduced_cost(j);
                 let gain = if self.at_upper[j] { d } else { -d };
                 if gain > self.tol.optimality {
                     if bland {
@@ -451,20 +624,7 @@ impl BoundedSimplex {
             self.basis[r] = q;
             self.position[q] = r;
             self.at_upper[q] = false;
-            let piv = self.alpha[r];
-            for k in 0..m {
-                self.binv[r * m + k] /= piv;
-            }
-            for i in 0..m {
-                if i != r {
-                    let f = self.alpha[i];
-                    if f != 0.0 {
-                        for k in 0..m {
-                            self.binv[i * m + k] -= f * self.binv[r * m + k];
-                        }
-                    }
-                }
-            }
+            self.pivot_inverse(r);
             since_refactor += 1;
             if since_refactor >= self.tol.refactor_interval {
                 since_refactor = 0;

@@ -6,4 +6,5 @@ pub mod gas;
 pub mod layout;
 pub mod mass;
 pub mod model;
+pub mod optimize;
 pub mod units;

@@ -442,7 +442,10 @@ impl Port {
 
     /// Angle between the drill axis and the surface normal, rad.
     pub fn total_cant_rad(&self) -> f64 {
-        self.exhaust_direction().dot(&self.normal()).clamp(-1.0, 1.0).acos()
+        self.exhaust_direction()
+            .dot(&self.normal())
+            .clamp(-1.0, 1.0)
+            .acos()
     }
 }
 

@@ -319,6 +319,9 @@ struct Plate {
     side: Vector3<f64>,
     /// Corners: root leading, root trailing, tip trailing, tip leading.
     corners: [Vector3<f64>; 4],
+    /// Centre and radius of a sphere holding the plate, for a quick miss test.
+    centre: Vector3<f64>,
+    reach_m: f64,
 }
 
 /// The rules, made ready for one airframe.
@@ -346,15 +349,23 @@ impl Constraints {
                         |station: f64, radius: f64| Vector3::new(-station, 0.0, 0.0) + out * radius;
                     let s0 = fins.station_m;
                     let tip = r + fins.span_m;
+                    let corners = [
+                        at(s0, r),
+                        at(s0 + fins.root_chord_m, r),
+                        at(s0 + fins.sweep_m + fins.tip_chord_m, tip),
+                        at(s0 + fins.sweep_m, tip),
+                    ];
+                    let centre = corners.iter().sum::<Vector3<f64>>() / 4.0;
+                    let reach_m = corners
+                        .iter()
+                        .map(|c| (c - centre).norm())
+                        .fold(0.0, f64::max);
                     Plate {
                         out,
                         side,
-                        corners: [
-                            at(s0, r),
-                            at(s0 + fins.root_chord_m, r),
-                            at(s0 + fins.sweep_m + fins.tip_chord_m, tip),
-                            at(s0 + fins.sweep_m, tip),
-                        ],
+                        corners,
+                        centre,
+                        reach_m,
                     }
                 })
             })
@@ -452,7 +463,7 @@ impl Constraints {
         let tol = lim.tolerances;
         let radius = self.airframe.outer_radius_m();
         let alpha = lim.plume_half_angle_rad;
-        let cos_alpha = alpha.cos();
+        let cone = Cone::new(alpha);
         for (k, port) in ports.iter().enumerate() {
             let d = port.nozzle.hole_diameter_m();
             let edge = (lim.edge_distance_diameters * d - 0.5 * d).max(0.0);
@@ -476,6 +487,9 @@ impl Constraints {
             let pk = port.position(radius);
             for (j, other) in ports.iter().enumerate().skip(k + 1) {
                 let required_m = lim.spacing_diameters * 0.5 * (d + other.nozzle.hole_diameter_m());
+                if (other.station_m - port.station_m).abs() >= required_m {
+                    continue;
+                }
                 let distance_m = (other.position(radius) - pk).norm();
                 if required_m - distance_m > tol.length_m {
                     f(
@@ -501,9 +515,7 @@ impl Constraints {
                 f(k, Found::PlumeIntoTube { edge_rad });
             }
             for (fin, plate) in self.plates.iter().enumerate() {
-                if let Some(nearest_rad) =
-                    cone_meets_plate(&pk, &e, plate, cos_alpha, alpha, tol.angle_rad)
-                {
+                if let Some(nearest_rad) = cone_meets_plate(&pk, &e, plate, &cone, tol.angle_rad) {
                     f(k, Found::PlumeOnFin { fin, nearest_rad });
                 }
             }
@@ -537,6 +549,21 @@ fn best_cos_on_segment(e: &Vector3<f64>, a: &Vector3<f64>, b: &Vector3<f64>) -> 
     best
 }
 
+/// An exhaust cone's half-angle with its sine and cosine.
+#[derive(Debug, Clone, Copy)]
+struct Cone {
+    angle: f64,
+    sin: f64,
+    cos: f64,
+}
+
+impl Cone {
+    fn new(angle: f64) -> Self {
+        let (sin, cos) = angle.sin_cos();
+        Cone { angle, sin, cos }
+    }
+}
+
 /// `Some(nearest angle from the axis to the plate)` when the cone of half-angle
 /// `alpha` from `apex` about `e` meets the plate by more than `tol`; the nearest
 /// angle is returned as minus the depth of the axis inside the plate when it
@@ -545,10 +572,23 @@ fn cone_meets_plate(
     apex: &Vector3<f64>,
     e: &Vector3<f64>,
     plate: &Plate,
-    cos_alpha: f64,
-    alpha: f64,
+    cone: &Cone,
     tol: f64,
 ) -> Option<f64> {
+    // Quick miss: the plate lies inside a cone of half-angle β about the direction
+    // to its bounding sphere's centre; if that cone is more than α away from the
+    // axis, nothing of the plate is inside the exhaust cone.
+    let to_centre = plate.centre - apex;
+    let dist = to_centre.norm();
+    if dist > plate.reach_m {
+        let sin_beta = plate.reach_m / dist;
+        let cos_beta = (1.0 - sin_beta * sin_beta).sqrt();
+        // α and β are both below 90°, so α + β is below 180° and cosine is monotone.
+        let cos_sum = cone.cos * cos_beta - cone.sin * sin_beta;
+        if e.dot(&to_centre) / dist < cos_sum {
+            return None;
+        }
+    }
     let mut best_cos = f64::NEG_INFINITY;
     for i in 0..4 {
         let a = plate.corners[i] - apex;
@@ -559,7 +599,7 @@ fn cone_meets_plate(
     if pierces(apex, e, plate) {
         return Some(-edge_angle);
     }
-    if best_cos >= cos_alpha && alpha - edge_angle > tol {
+    if best_cos >= cone.cos && cone.angle - edge_angle > tol {
         Some(edge_angle)
     } else {
         None
@@ -740,8 +780,8 @@ mod tests {
             ..Limits::default()
         };
         let c = |a: f64| Constraints::new(&d.airframe, at(a)).unwrap();
-        assert!(c(nearest - 1e-6).is_feasible(&[p.clone()]));
-        let v = c(nearest + 1e-6).violations(&[p.clone()]);
+        assert!(c(nearest - 1e-6).is_feasible(std::slice::from_ref(&p)));
+        let v = c(nearest + 1e-6).violations(std::slice::from_ref(&p));
         assert_eq!(v.len(), 1, "{v:?}");
         match v[0].breach {
             Breach::PlumeOnFin { fin, nearest_rad } => {
@@ -807,7 +847,7 @@ mod tests {
                         sampled |= pierces(&apex, &dir, plate);
                     }
                 }
-                let exact = cone_meets_plate(&apex, &e, plate, alpha.cos(), alpha, 0.0).is_some();
+                let exact = cone_meets_plate(&apex, &e, plate, &Cone::new(alpha), 0.0).is_some();
                 if sampled {
                     hits += 1;
                     assert!(exact, "sampled hit missed by the exact test: {p:?}");

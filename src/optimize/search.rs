@@ -357,7 +357,7 @@ fn check_settings(s: &SearchSettings, d: usize, starts: usize) -> Result<usize, 
             "must be above zero and not above refine_first_step",
         );
     }
-    if !(s.collapse_spread >= 0.0) {
+    if s.collapse_spread.is_nan() || s.collapse_spread < 0.0 {
         return bad("collapse_spread", "must be zero or more");
     }
     let population = if s.population == 0 {
@@ -1015,7 +1015,7 @@ mod tests {
         };
         let o = search(
             &b,
-            &[start.clone()],
+            std::slice::from_ref(&start),
             &settings,
             &AtomicBool::new(false),
             &mut quiet(),

@@ -754,14 +754,10 @@ mod tests {
             assert_relative_eq!(p.nozzle.hole_diameter_m(), 1.6e-3, epsilon = 1e-12);
         }
         v.write(&[1.0, 0.5, 1.0], &mut ports);
-        for k in 0..4 {
-            assert_relative_eq!(
-                ports[k].clock_rad,
-                deg(45.0 + 90.0 * k as f64),
-                epsilon = 1e-12
-            );
-            assert_relative_eq!(ports[k].station_m, 0.55, epsilon = 1e-12);
-            assert_relative_eq!(ports[k].nozzle.hole_diameter_m(), 3.0e-3, epsilon = 1e-12);
+        for (k, p) in ports.iter().enumerate().take(4) {
+            assert_relative_eq!(p.clock_rad, deg(45.0 + 90.0 * k as f64), epsilon = 1e-12);
+            assert_relative_eq!(p.station_m, 0.55, epsilon = 1e-12);
+            assert_relative_eq!(p.nozzle.hole_diameter_m(), 3.0e-3, epsilon = 1e-12);
         }
         assert_eq!(v.encode(&ports), vec![1.0, 0.5, 25.5 / 26.0]);
     }

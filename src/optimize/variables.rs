@@ -428,7 +428,8 @@ impl Variables {
             for (&k, &offset) in g.members.iter().zip(&g.offsets_rad) {
                 let p = &mut ports[k];
                 p.station_m = station;
-                p.clock_rad = clock + offset;
+                // Kept in [0°, 360°) so reports and templates read naturally.
+                p.clock_rad = (clock + offset).rem_euclid(TAU);
                 p.tangential_cant_rad = tangential;
                 p.axial_cant_rad = axial;
                 if let (Some(d), NozzleSpec::Hole { diameter_m, .. }) = (hole, &mut p.nozzle) {

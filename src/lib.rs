@@ -10,5 +10,6 @@ pub mod gas;
 pub mod layout;
 pub mod mass;
 pub mod model;
+pub mod optimize;
 pub mod report;
 pub mod units;

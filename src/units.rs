@@ -198,7 +198,16 @@ fn split_number(text: &str) -> Option<(f64, String, bool)> {
     }
     // Words such as "nan" and "inf" parse as floats too; catch them explicitly.
     let lower = t.to_ascii_lowercase();
-    for word in ["nan", "+nan", "-nan", "inf", "+inf", "-inf", "infinity", "-infinity"] {
+    for word in [
+        "nan",
+        "+nan",
+        "-nan",
+        "inf",
+        "+inf",
+        "-inf",
+        "infinity",
+        "-infinity",
+    ] {
         if lower.starts_with(word) {
             let rest = &t[word.len()..];
             return Some((f64::NAN, normalise_unit(rest), false));
@@ -231,7 +240,11 @@ const fn row(names: &'static [&'static str], kind: Kind, scale: f64) -> UnitRow 
     }
 }
 
-const fn pressure(names: &'static [&'static str], scale: f64, reference: PressureReference) -> UnitRow {
+const fn pressure(
+    names: &'static [&'static str],
+    scale: f64,
+    reference: PressureReference,
+) -> UnitRow {
     UnitRow {
         names,
         kind: Kind::Pressure,
@@ -259,21 +272,49 @@ static UNITS: &[UnitRow] = &[
     row(&["mm3", "mm^3"], Kind::Volume, 1e-9),
     row(&["cm3", "cm^3", "cc", "mL", "ml"], Kind::Volume, 1e-6),
     row(&["L", "l"], Kind::Volume, 1e-3),
-    row(&["in3", "in^3", "cu in"], Kind::Volume, INCH_M * INCH_M * INCH_M),
+    row(
+        &["in3", "in^3", "cu in"],
+        Kind::Volume,
+        INCH_M * INCH_M * INCH_M,
+    ),
     row(&["ft3", "ft^3"], Kind::Volume, FOOT_M * FOOT_M * FOOT_M),
     pressure(&["Pa", "Pa abs", "Paa"], 1.0, PressureReference::Absolute),
-    pressure(&["kPa", "kPa abs", "kPaa"], 1e3, PressureReference::Absolute),
-    pressure(&["MPa", "MPa abs", "MPaa"], 1e6, PressureReference::Absolute),
+    pressure(
+        &["kPa", "kPa abs", "kPaa"],
+        1e3,
+        PressureReference::Absolute,
+    ),
+    pressure(
+        &["MPa", "MPa abs", "MPaa"],
+        1e6,
+        PressureReference::Absolute,
+    ),
     pressure(&["Pag", "Pa g"], 1.0, PressureReference::Gauge),
     pressure(&["kPag", "kPa g", "kPa(g)"], 1e3, PressureReference::Gauge),
     pressure(&["MPag", "MPa g", "MPa(g)"], 1e6, PressureReference::Gauge),
-    pressure(&["psia", "psi a", "psi(a)"], PSI_PA, PressureReference::Absolute),
-    pressure(&["psig", "psi g", "psi(g)"], PSI_PA, PressureReference::Gauge),
+    pressure(
+        &["psia", "psi a", "psi(a)"],
+        PSI_PA,
+        PressureReference::Absolute,
+    ),
+    pressure(
+        &["psig", "psi g", "psi(g)"],
+        PSI_PA,
+        PressureReference::Gauge,
+    ),
     pressure(&["psi"], PSI_PA, PressureReference::BareGauge),
-    pressure(&["bara", "bar a", "bar(a)"], 1e5, PressureReference::Absolute),
+    pressure(
+        &["bara", "bar a", "bar(a)"],
+        1e5,
+        PressureReference::Absolute,
+    ),
     pressure(&["barg", "bar g", "bar(g)"], 1e5, PressureReference::Gauge),
     pressure(&["bar"], 1e5, PressureReference::BareGauge),
-    pressure(&["atm"], STANDARD_ATMOSPHERE_PA, PressureReference::Absolute),
+    pressure(
+        &["atm"],
+        STANDARD_ATMOSPHERE_PA,
+        PressureReference::Absolute,
+    ),
     row(&["kg"], Kind::Mass, 1.0),
     row(&["g"], Kind::Mass, 1e-3),
     row(&["mg"], Kind::Mass, 1e-6),
@@ -287,13 +328,51 @@ static UNITS: &[UnitRow] = &[
     row(&["N m", "Nm", "N·m", "N*m", "N-m"], Kind::Torque, 1.0),
     row(&["mN m", "mNm", "mN·m", "mN*m"], Kind::Torque, 1e-3),
     row(&["N mm", "Nmm", "N·mm", "N*mm"], Kind::Torque, 1e-3),
-    row(&["lbf in", "lbf·in", "lbf*in", "in lbf", "in·lbf", "lbf-in"], Kind::Torque, POUND_FORCE_N * INCH_M),
-    row(&["lbf ft", "lbf·ft", "lbf*ft", "ft lbf", "ft·lbf", "lbf-ft"], Kind::Torque, POUND_FORCE_N * FOOT_M),
-    row(&["ozf in", "ozf·in", "ozf*in", "in ozf", "in·ozf", "ozf-in", "oz in", "oz·in"], Kind::Torque, OUNCE_FORCE_N * INCH_M),
-    UnitRow { names: &["K"], kind: Kind::Temperature, scale: 1.0, offset: 0.0, reference: None },
-    UnitRow { names: &["C", "°C", "degC", "deg C"], kind: Kind::Temperature, scale: 1.0, offset: 273.15, reference: None },
-    UnitRow { names: &["F", "°F", "degF", "deg F"], kind: Kind::Temperature, scale: 5.0 / 9.0, offset: 459.67 * 5.0 / 9.0, reference: None },
-    UnitRow { names: &["R", "degR"], kind: Kind::Temperature, scale: 5.0 / 9.0, offset: 0.0, reference: None },
+    row(
+        &["lbf in", "lbf·in", "lbf*in", "in lbf", "in·lbf", "lbf-in"],
+        Kind::Torque,
+        POUND_FORCE_N * INCH_M,
+    ),
+    row(
+        &["lbf ft", "lbf·ft", "lbf*ft", "ft lbf", "ft·lbf", "lbf-ft"],
+        Kind::Torque,
+        POUND_FORCE_N * FOOT_M,
+    ),
+    row(
+        &[
+            "ozf in", "ozf·in", "ozf*in", "in ozf", "in·ozf", "ozf-in", "oz in", "oz·in",
+        ],
+        Kind::Torque,
+        OUNCE_FORCE_N * INCH_M,
+    ),
+    UnitRow {
+        names: &["K"],
+        kind: Kind::Temperature,
+        scale: 1.0,
+        offset: 0.0,
+        reference: None,
+    },
+    UnitRow {
+        names: &["C", "°C", "degC", "deg C"],
+        kind: Kind::Temperature,
+        scale: 1.0,
+        offset: 273.15,
+        reference: None,
+    },
+    UnitRow {
+        names: &["F", "°F", "degF", "deg F"],
+        kind: Kind::Temperature,
+        scale: 5.0 / 9.0,
+        offset: 459.67 * 5.0 / 9.0,
+        reference: None,
+    },
+    UnitRow {
+        names: &["R", "degR"],
+        kind: Kind::Temperature,
+        scale: 5.0 / 9.0,
+        offset: 0.0,
+        reference: None,
+    },
     row(&["deg", "°", "degree", "degrees"], Kind::Angle, DEG),
     row(&["rad", "radian", "radians"], Kind::Angle, 1.0),
     row(&["s", "sec"], Kind::Time, 1.0),
@@ -303,9 +382,21 @@ static UNITS: &[UnitRow] = &[
     row(&["rad/s"], Kind::AngularRate, 1.0),
     row(&["deg/s", "°/s"], Kind::AngularRate, DEG),
     row(&["rpm", "rev/min"], Kind::AngularRate, RPM),
-    row(&["rps", "rev/s", "Hz"], Kind::AngularRate, std::f64::consts::TAU),
-    row(&["rad/s^2", "rad/s2", "rad/s²"], Kind::AngularAcceleration, 1.0),
-    row(&["deg/s^2", "deg/s2", "deg/s²", "°/s^2", "°/s2", "°/s²"], Kind::AngularAcceleration, DEG),
+    row(
+        &["rps", "rev/s", "Hz"],
+        Kind::AngularRate,
+        std::f64::consts::TAU,
+    ),
+    row(
+        &["rad/s^2", "rad/s2", "rad/s²"],
+        Kind::AngularAcceleration,
+        1.0,
+    ),
+    row(
+        &["deg/s^2", "deg/s2", "deg/s²", "°/s^2", "°/s2", "°/s²"],
+        Kind::AngularAcceleration,
+        DEG,
+    ),
     row(&["rpm/s"], Kind::AngularAcceleration, RPM),
     row(&["kg/s"], Kind::MassFlow, 1.0),
     row(&["g/s"], Kind::MassFlow, 1e-3),
@@ -313,10 +404,22 @@ static UNITS: &[UnitRow] = &[
     row(&["lb/s", "lbm/s"], Kind::MassFlow, POUND_KG),
     row(&["A"], Kind::Current, 1.0),
     row(&["mA"], Kind::Current, 1e-3),
-    row(&["kg m2", "kg m^2", "kg·m²", "kg·m2", "kg*m^2"], Kind::Inertia, 1.0),
+    row(
+        &["kg m2", "kg m^2", "kg·m²", "kg·m2", "kg*m^2"],
+        Kind::Inertia,
+        1.0,
+    ),
     row(&["g cm2", "g cm^2", "g·cm²", "g*cm^2"], Kind::Inertia, 1e-7),
-    row(&["lb in2", "lb in^2", "lb·in²", "lbm in^2"], Kind::Inertia, POUND_KG * INCH_M * INCH_M),
-    row(&["oz in2", "oz in^2", "oz·in²"], Kind::Inertia, OUNCE_KG * INCH_M * INCH_M),
+    row(
+        &["lb in2", "lb in^2", "lb·in²", "lbm in^2"],
+        Kind::Inertia,
+        POUND_KG * INCH_M * INCH_M,
+    ),
+    row(
+        &["oz in2", "oz in^2", "oz·in²"],
+        Kind::Inertia,
+        OUNCE_KG * INCH_M * INCH_M,
+    ),
 ];
 
 fn kind_name(kind: Kind) -> &'static str {
@@ -403,15 +506,51 @@ mod tests {
     #[test]
     fn conversions_match_nist_sp811() {
         let tol = 1e-6;
-        assert_relative_eq!(parse("2.1 in", Kind::Length).unwrap(), 0.05334, max_relative = tol);
-        assert_relative_eq!(parse("54 mm", Kind::Length).unwrap(), 0.054, max_relative = tol);
-        assert_relative_eq!(parse("13 in3", Kind::Volume).unwrap(), 13.0 * 1.638_706_4e-5, max_relative = tol);
-        assert_relative_eq!(parse("0.25 L", Kind::Volume).unwrap(), 2.5e-4, max_relative = tol);
-        assert_relative_eq!(parse("1 lbf", Kind::Force).unwrap(), 4.448_222, max_relative = tol);
-        assert_relative_eq!(parse("1 lbf in", Kind::Torque).unwrap(), 0.112_984_8, max_relative = tol);
-        assert_relative_eq!(parse("1 ozf in", Kind::Torque).unwrap(), 7.061_552e-3, max_relative = tol);
-        assert_relative_eq!(parse("180 g", Kind::Mass).unwrap(), 0.18, max_relative = tol);
-        assert_relative_eq!(parse("1 oz", Kind::Mass).unwrap(), 0.028_349_52, max_relative = tol);
+        assert_relative_eq!(
+            parse("2.1 in", Kind::Length).unwrap(),
+            0.05334,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("54 mm", Kind::Length).unwrap(),
+            0.054,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("13 in3", Kind::Volume).unwrap(),
+            13.0 * 1.638_706_4e-5,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("0.25 L", Kind::Volume).unwrap(),
+            2.5e-4,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("1 lbf", Kind::Force).unwrap(),
+            4.448_222,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("1 lbf in", Kind::Torque).unwrap(),
+            0.112_984_8,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("1 ozf in", Kind::Torque).unwrap(),
+            7.061_552e-3,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("180 g", Kind::Mass).unwrap(),
+            0.18,
+            max_relative = tol
+        );
+        assert_relative_eq!(
+            parse("1 oz", Kind::Mass).unwrap(),
+            0.028_349_52,
+            max_relative = tol
+        );
         let p = parse_pressure("150 psig").unwrap();
         assert_relative_eq!(p.pa, 150.0 * 6_894.757, max_relative = tol);
         assert_eq!(p.reference, PressureReference::Gauge);
@@ -419,33 +558,87 @@ mod tests {
 
     #[test]
     fn temperatures_and_angles() {
-        assert_relative_eq!(parse("20 C", Kind::Temperature).unwrap(), 293.15, epsilon = 1e-9);
-        assert_relative_eq!(parse("68 F", Kind::Temperature).unwrap(), 293.15, epsilon = 1e-9);
-        assert_relative_eq!(parse("-40 C", Kind::Temperature).unwrap(), parse("-40 F", Kind::Temperature).unwrap(), epsilon = 1e-9);
-        assert_relative_eq!(parse("12 deg", Kind::Angle).unwrap(), 12f64.to_radians(), epsilon = 1e-15);
-        assert_relative_eq!(parse("30 deg/s^2", Kind::AngularAcceleration).unwrap(), 30f64.to_radians(), epsilon = 1e-15);
+        assert_relative_eq!(
+            parse("20 C", Kind::Temperature).unwrap(),
+            293.15,
+            epsilon = 1e-9
+        );
+        assert_relative_eq!(
+            parse("68 F", Kind::Temperature).unwrap(),
+            293.15,
+            epsilon = 1e-9
+        );
+        assert_relative_eq!(
+            parse("-40 C", Kind::Temperature).unwrap(),
+            parse("-40 F", Kind::Temperature).unwrap(),
+            epsilon = 1e-9
+        );
+        assert_relative_eq!(
+            parse("12 deg", Kind::Angle).unwrap(),
+            12f64.to_radians(),
+            epsilon = 1e-15
+        );
+        assert_relative_eq!(
+            parse("30 deg/s^2", Kind::AngularAcceleration).unwrap(),
+            30f64.to_radians(),
+            epsilon = 1e-15
+        );
     }
 
     #[test]
     fn gauge_and_absolute_are_kept_apart() {
-        assert_eq!(parse_pressure("10 bar").unwrap().reference, PressureReference::BareGauge);
-        assert_eq!(parse_pressure("10 bara").unwrap().reference, PressureReference::Absolute);
-        assert_eq!(parse_pressure("1.2 MPa").unwrap().reference, PressureReference::Absolute);
+        assert_eq!(
+            parse_pressure("10 bar").unwrap().reference,
+            PressureReference::BareGauge
+        );
+        assert_eq!(
+            parse_pressure("10 bara").unwrap().reference,
+            PressureReference::Absolute
+        );
+        assert_eq!(
+            parse_pressure("1.2 MPa").unwrap().reference,
+            PressureReference::Absolute
+        );
         let g = parse_pressure("1 barg").unwrap();
-        assert_relative_eq!(g.absolute_pa(STANDARD_ATMOSPHERE_PA), 201_325.0, epsilon = 1e-9);
+        assert_relative_eq!(
+            g.absolute_pa(STANDARD_ATMOSPHERE_PA),
+            201_325.0,
+            epsilon = 1e-9
+        );
         // "mPa" is a millipascal, not a megapascal: not in the table, so it is refused.
         assert!(parse_pressure("3 mPa").is_err());
     }
 
     #[test]
     fn bad_text_is_refused_with_reason() {
-        assert!(matches!(parse("12 kg", Kind::Length), Err(UnitError::WrongKind { .. })));
-        assert!(matches!(parse("12", Kind::Length), Err(UnitError::NoUnit { .. })));
-        assert!(matches!(parse("mm", Kind::Length), Err(UnitError::NoNumber { .. })));
-        assert!(matches!(parse("12 furlong", Kind::Length), Err(UnitError::UnknownUnit { .. })));
-        assert!(matches!(parse("NaN mm", Kind::Length), Err(UnitError::NotFinite { .. })));
-        assert!(matches!(parse("inf mm", Kind::Length), Err(UnitError::NotFinite { .. })));
-        assert!(matches!(parse("1e400 mm", Kind::Length), Err(UnitError::NotFinite { .. })));
+        assert!(matches!(
+            parse("12 kg", Kind::Length),
+            Err(UnitError::WrongKind { .. })
+        ));
+        assert!(matches!(
+            parse("12", Kind::Length),
+            Err(UnitError::NoUnit { .. })
+        ));
+        assert!(matches!(
+            parse("mm", Kind::Length),
+            Err(UnitError::NoNumber { .. })
+        ));
+        assert!(matches!(
+            parse("12 furlong", Kind::Length),
+            Err(UnitError::UnknownUnit { .. })
+        ));
+        assert!(matches!(
+            parse("NaN mm", Kind::Length),
+            Err(UnitError::NotFinite { .. })
+        ));
+        assert!(matches!(
+            parse("inf mm", Kind::Length),
+            Err(UnitError::NotFinite { .. })
+        ));
+        assert!(matches!(
+            parse("1e400 mm", Kind::Length),
+            Err(UnitError::NotFinite { .. })
+        ));
         let msg = parse("2 kg", Kind::Length).unwrap_err().to_string();
         assert!(msg.contains("expected a length such as \"54 mm\""), "{msg}");
         assert!(msg.contains("\"2 kg\""), "{msg}");

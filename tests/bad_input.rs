@@ -85,7 +85,11 @@ altitude = "400 m"
 
 /// Replace one exact piece of the base layout (which must be present once).
 fn with(from: &str, to: &str) -> String {
-    assert_eq!(BASE.matches(from).count(), 1, "fixture text {from:?} must occur once");
+    assert_eq!(
+        BASE.matches(from).count(),
+        1,
+        "fixture text {from:?} must occur once"
+    );
     BASE.replacen(from, to, 1)
 }
 
@@ -95,7 +99,10 @@ fn error_of(text: &str) -> String {
         Ok(_) => panic!("expected an error for:\n{text}"),
         Err(e @ LayoutError::Invalid { .. }) => {
             let msg = e.to_string();
-            assert!(msg.starts_with("bad.toml:"), "message lacks the file name: {msg}");
+            assert!(
+                msg.starts_with("bad.toml:"),
+                "message lacks the file name: {msg}"
+            );
             msg
         }
         Err(e) => panic!("unexpected error kind: {e}"),
@@ -103,14 +110,20 @@ fn error_of(text: &str) -> String {
 }
 
 fn line_of(text: &str, needle: &str) -> usize {
-    text.lines().position(|l| l.contains(needle)).expect("needle in text") + 1
+    text.lines()
+        .position(|l| l.contains(needle))
+        .expect("needle in text")
+        + 1
 }
 
 /// Assert the error names the field and points at the line holding `needle`.
 fn assert_error(text: &str, needle: &str, field: &str, words: &str) {
     let msg = error_of(text);
     let line = line_of(text, needle);
-    assert!(msg.contains(&format!("bad.toml:{line}:")), "expected line {line} in: {msg}");
+    assert!(
+        msg.contains(&format!("bad.toml:{line}:")),
+        "expected line {line} in: {msg}"
+    );
     assert!(msg.contains(field), "expected field `{field}` in: {msg}");
     assert!(msg.contains(words), "expected `{words}` in: {msg}");
 }
@@ -124,7 +137,10 @@ fn base_layout_is_valid() {
 fn toml_syntax_error() {
     let t = with("length = \"1000 mm\"", "length = \"1000 mm");
     let msg = error_of(&t);
-    assert!(msg.contains(&format!("bad.toml:{}:", line_of(&t, "length = \"1000 mm"))), "{msg}");
+    assert!(
+        msg.contains(&format!("bad.toml:{}:", line_of(&t, "length = \"1000 mm"))),
+        "{msg}"
+    );
 }
 
 #[test]
@@ -138,19 +154,35 @@ fn number_instead_of_string() {
     let t = with("outer_diameter = \"54 mm\"", "outer_diameter = 54");
     let msg = error_of(&t);
     assert!(msg.contains("such as \"54 mm\""), "{msg}");
-    assert!(msg.contains(&format!(":{}:", line_of(&t, "outer_diameter"))), "{msg}");
+    assert!(
+        msg.contains(&format!(":{}:", line_of(&t, "outer_diameter"))),
+        "{msg}"
+    );
 }
 
 #[test]
 fn unknown_unit() {
     let t = with("length = \"200 mm\"", "length = \"200 furlongs\"");
-    assert_error(&t, "200 furlongs", "airframe.nose.length", "unknown unit `furlongs`");
+    assert_error(
+        &t,
+        "200 furlongs",
+        "airframe.nose.length",
+        "unknown unit `furlongs`",
+    );
 }
 
 #[test]
 fn unit_of_wrong_kind() {
-    let t = with("hole = \"1.5 mm\"\n\n[[port]]\nname = \"b\"", "hole = \"12 kg\"\n\n[[port]]\nname = \"b\"");
-    assert_error(&t, "12 kg", "port `a`.hole", "expected a length such as \"54 mm\"");
+    let t = with(
+        "hole = \"1.5 mm\"\n\n[[port]]\nname = \"b\"",
+        "hole = \"12 kg\"\n\n[[port]]\nname = \"b\"",
+    );
+    assert_error(
+        &t,
+        "12 kg",
+        "port `a`.hole",
+        "expected a length such as \"54 mm\"",
+    );
 }
 
 #[test]
@@ -172,34 +204,64 @@ fn zero_and_negative_sizes() {
 #[test]
 fn inner_diameter_not_below_outer() {
     let t = with("inner_diameter = \"51 mm\"", "inner_diameter = \"56 mm\"");
-    assert_error(&t, "56 mm", "airframe.inner_diameter", "must be less than the outer diameter");
+    assert_error(
+        &t,
+        "56 mm",
+        "airframe.inner_diameter",
+        "must be less than the outer diameter",
+    );
 }
 
 #[test]
 fn port_outside_tube() {
-    let t = with("station = \"300 mm\"\nclock = \"0 deg\"", "station = \"1500 mm\"\nclock = \"0 deg\"");
+    let t = with(
+        "station = \"300 mm\"\nclock = \"0 deg\"",
+        "station = \"1500 mm\"\nclock = \"0 deg\"",
+    );
     assert_error(&t, "1500 mm", "port `a`.station", "not on the body tube");
-    let t = with("station = \"300 mm\"\nclock = \"0 deg\"", "station = \"100 mm\"\nclock = \"0 deg\"");
-    assert_error(&t, "station = \"100 mm\"", "port `a`.station", "not on the body tube");
+    let t = with(
+        "station = \"300 mm\"\nclock = \"0 deg\"",
+        "station = \"100 mm\"\nclock = \"0 deg\"",
+    );
+    assert_error(
+        &t,
+        "station = \"100 mm\"",
+        "port `a`.station",
+        "not on the body tube",
+    );
 }
 
 #[test]
 fn port_in_fin_root() {
     // Fins default to a first clock of 0 deg; this port sits on fin 1's root.
-    let t = with("station = \"300 mm\"\nclock = \"0 deg\"", "station = \"1120 mm\"\nclock = \"0 deg\"");
+    let t = with(
+        "station = \"300 mm\"\nclock = \"0 deg\"",
+        "station = \"1120 mm\"\nclock = \"0 deg\"",
+    );
     assert_error(&t, "clock = \"0 deg\"", "port `a`.clock", "root of fin 1");
 }
 
 #[test]
 fn port_in_keep_out() {
-    let t = with("station = \"300 mm\"\nclock = \"0 deg\"", "station = \"620 mm\"\nclock = \"0 deg\"");
+    let t = with(
+        "station = \"300 mm\"\nclock = \"0 deg\"",
+        "station = \"620 mm\"\nclock = \"0 deg\"",
+    );
     assert_error(&t, "620 mm", "port `a`.station", "keep-out zone `coupler`");
 }
 
 #[test]
 fn set_pressure_at_or_above_fill() {
-    let t = with("fill_pressure = \"3000 psig\"", "fill_pressure = \"180 psig\"");
-    assert_error(&t, "180 psig", "feed.tank.fill_pressure", "must exceed the regulator set pressure");
+    let t = with(
+        "fill_pressure = \"3000 psig\"",
+        "fill_pressure = \"180 psig\"",
+    );
+    assert_error(
+        &t,
+        "180 psig",
+        "feed.tank.fill_pressure",
+        "must exceed the regulator set pressure",
+    );
 }
 
 #[test]
@@ -218,9 +280,19 @@ fn unknown_gas() {
 fn duplicate_port_names() {
     let t = with("name = \"b\"", "name = \"a\"");
     let msg = error_of(&t);
-    let second = t.lines().enumerate().filter(|(_, l)| l.contains("name = \"a\"")).nth(1).unwrap().0 + 1;
+    let second = t
+        .lines()
+        .enumerate()
+        .filter(|(_, l)| l.contains("name = \"a\""))
+        .nth(1)
+        .unwrap()
+        .0
+        + 1;
     assert!(msg.contains(&format!("bad.toml:{second}:")), "{msg}");
-    assert!(msg.contains("port `a`.name") && msg.contains("duplicate"), "{msg}");
+    assert!(
+        msg.contains("port `a`.name") && msg.contains("duplicate"),
+        "{msg}"
+    );
 }
 
 #[test]
@@ -242,7 +314,8 @@ fn unknown_field_is_named() {
 
 #[test]
 fn every_problem_is_listed_at_once() {
-    let t = with("volume = \"0.2 L\"", "volume = \"0 L\"").replace("gas = \"nitrogen\"", "gas = \"xenonite\"");
+    let t = with("volume = \"0.2 L\"", "volume = \"0 L\"")
+        .replace("gas = \"nitrogen\"", "gas = \"xenonite\"");
     let e = parse_str(&t, "bad.toml").unwrap_err();
     assert!(e.problems().len() >= 2, "{e}");
 }
@@ -251,7 +324,11 @@ fn every_problem_is_listed_at_once() {
 fn bare_psi_is_read_as_gauge_and_said() {
     let t = with("set_pressure = \"150 psig\"", "set_pressure = \"150 psi\"");
     let d = parse_str(&t, "ok.toml").unwrap();
-    assert!(d.readings.iter().any(|r| r.contains("read as gauge")), "{:?}", d.readings);
+    assert!(
+        d.readings.iter().any(|r| r.contains("read as gauge")),
+        "{:?}",
+        d.readings
+    );
 }
 
 proptest::proptest! {

@@ -40,7 +40,12 @@ mod tests {
 
     #[test]
     fn every_profile_starts_at_a_point_and_meets_the_tube() {
-        for shape in [NoseShape::Conical, NoseShape::Ogive, NoseShape::Elliptical, NoseShape::Parabolic] {
+        for shape in [
+            NoseShape::Conical,
+            NoseShape::Ogive,
+            NoseShape::Elliptical,
+            NoseShape::Parabolic,
+        ] {
             assert_relative_eq!(profile_radius(shape, 0.2, 0.03, 0.0), 0.0, epsilon = 1e-12);
             assert_relative_eq!(profile_radius(shape, 0.2, 0.03, 0.2), 0.03, epsilon = 1e-12);
         }
@@ -52,7 +57,9 @@ mod tests {
         // geometry text, e.g. the ogive definition in Crowell, "The Descriptive
         // Geometry of Nose Cones", 1996): slope at the shoulder is zero.
         let (l, r, h) = (0.25, 0.04, 1e-6);
-        let slope = (profile_radius(NoseShape::Ogive, l, r, l) - profile_radius(NoseShape::Ogive, l, r, l - h)) / h;
+        let slope = (profile_radius(NoseShape::Ogive, l, r, l)
+            - profile_radius(NoseShape::Ogive, l, r, l - h))
+            / h;
         assert!(slope.abs() < 1e-4, "slope {slope}");
     }
 }

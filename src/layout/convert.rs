@@ -49,7 +49,11 @@ impl<'a> Reader<'a> {
     fn positive(&mut self, q: &Q, field: &str, kind: Kind) -> f64 {
         let v = self.qty(q, field, kind);
         if v.is_finite() && v <= 0.0 {
-            self.problem(q.span(), field, format!("expected a value above zero, found \"{}\"", q.get_ref()));
+            self.problem(
+                q.span(),
+                field,
+                format!("expected a value above zero, found \"{}\"", q.get_ref()),
+            );
         }
         v
     }
@@ -57,7 +61,11 @@ impl<'a> Reader<'a> {
     fn non_negative(&mut self, q: &Q, field: &str, kind: Kind) -> f64 {
         let v = self.qty(q, field, kind);
         if v.is_finite() && v < 0.0 {
-            self.problem(q.span(), field, format!("expected zero or more, found \"{}\"", q.get_ref()));
+            self.problem(
+                q.span(),
+                field,
+                format!("expected zero or more, found \"{}\"", q.get_ref()),
+            );
         }
         v
     }
@@ -73,7 +81,11 @@ impl<'a> Reader<'a> {
     fn temperature(&mut self, q: &Q, field: &str) -> f64 {
         let v = self.qty(q, field, Kind::Temperature);
         if v.is_finite() && v <= 0.0 {
-            self.problem(q.span(), field, format!("\"{}\" is at or below absolute zero", q.get_ref()));
+            self.problem(
+                q.span(),
+                field,
+                format!("\"{}\" is at or below absolute zero", q.get_ref()),
+            );
         }
         v
     }
@@ -97,7 +109,11 @@ impl<'a> Reader<'a> {
         match units::parse_pressure(q.get_ref()) {
             Ok(p) => {
                 if p.pa < 0.0 {
-                    self.problem(q.span(), field, format!("expected zero or more, found \"{}\"", q.get_ref()));
+                    self.problem(
+                        q.span(),
+                        field,
+                        format!("expected zero or more, found \"{}\"", q.get_ref()),
+                    );
                 }
                 p.pa
             }
@@ -110,18 +126,31 @@ impl<'a> Reader<'a> {
 
     fn note_bare(&mut self, q: &Q, field: &str, reference: PressureReference) {
         if reference == PressureReference::BareGauge {
-            self.readings
-                .push(format!("{field} = \"{}\" has no g/a suffix and is read as gauge", q.get_ref()));
+            self.readings.push(format!(
+                "{field} = \"{}\" has no g/a suffix and is read as gauge",
+                q.get_ref()
+            ));
         }
     }
 
-    fn fraction(&mut self, v: Option<&Spanned<f64>>, field: &str, default: f64, low: f64, high: f64) -> f64 {
+    fn fraction(
+        &mut self,
+        v: Option<&Spanned<f64>>,
+        field: &str,
+        default: f64,
+        low: f64,
+        high: f64,
+    ) -> f64 {
         match v {
             None => default,
             Some(s) => {
                 let x = *s.get_ref();
                 if !x.is_finite() || x < low || x > high {
-                    self.problem(s.span(), field, format!("expected a number from {low} to {high}, found {x}"));
+                    self.problem(
+                        s.span(),
+                        field,
+                        format!("expected a number from {low} to {high}, found {x}"),
+                    );
                 }
                 x
             }
@@ -131,19 +160,37 @@ impl<'a> Reader<'a> {
     fn positive_number(&mut self, v: &Spanned<f64>, field: &str) -> f64 {
         let x = *v.get_ref();
         if !x.is_finite() || x <= 0.0 {
-            self.problem(v.span(), field, format!("expected a number above zero, found {x}"));
+            self.problem(
+                v.span(),
+                field,
+                format!("expected a number above zero, found {x}"),
+            );
         }
         x
     }
 
-    fn choice<T: Copy>(&mut self, s: Option<&Spanned<String>>, field: &str, options: &[(&str, T)], default: T) -> T {
+    fn choice<T: Copy>(
+        &mut self,
+        s: Option<&Spanned<String>>,
+        field: &str,
+        options: &[(&str, T)],
+        default: T,
+    ) -> T {
         let Some(s) = s else { return default };
         let want = s.get_ref().trim().to_ascii_lowercase();
         if let Some((_, v)) = options.iter().find(|(n, _)| *n == want) {
             return *v;
         }
         let names: Vec<_> = options.iter().map(|(n, _)| format!("\"{n}\"")).collect();
-        self.problem(s.span(), field, format!("expected one of {}, found \"{}\"", names.join(", "), s.get_ref()));
+        self.problem(
+            s.span(),
+            field,
+            format!(
+                "expected one of {}, found \"{}\"",
+                names.join(", "),
+                s.get_ref()
+            ),
+        );
         default
     }
 }
@@ -189,7 +236,11 @@ fn read_airframe(r: &mut Reader, a: &Spanned<AirframeFile>) -> Airframe {
         r.problem(
             a.inner_diameter.span(),
             "airframe.inner_diameter",
-            format!("inner diameter \"{}\" must be less than the outer diameter \"{}\"", a.inner_diameter.get_ref(), a.outer_diameter.get_ref()),
+            format!(
+                "inner diameter \"{}\" must be less than the outer diameter \"{}\"",
+                a.inner_diameter.get_ref(),
+                a.outer_diameter.get_ref()
+            ),
         );
     }
     let tube_length_m = r.positive(&a.length, "airframe.length", Kind::Length);
@@ -214,7 +265,11 @@ fn read_airframe(r: &mut Reader, a: &Spanned<AirframeFile>) -> Airframe {
         let fs = f.get_ref();
         let count = *fs.count.get_ref();
         if !(1..=16).contains(&count) {
-            r.problem(fs.count.span(), "airframe.fins.count", format!("expected 1 to 16 fins, found {count}"));
+            r.problem(
+                fs.count.span(),
+                "airframe.fins.count",
+                format!("expected 1 to 16 fins, found {count}"),
+            );
         }
         let fins = Fins {
             count: count.clamp(1, 16) as usize,
@@ -223,13 +278,25 @@ fn read_airframe(r: &mut Reader, a: &Spanned<AirframeFile>) -> Airframe {
             span_m: r.positive(&fs.span, "airframe.fins.span", Kind::Length),
             sweep_m: r.opt(fs.sweep.as_ref(), "airframe.fins.sweep", Kind::Length, 0.0),
             station_m: r.non_negative(&fs.station, "airframe.fins.station", Kind::Length),
-            first_clock_rad: r.opt(fs.first_clock.as_ref(), "airframe.fins.first_clock", Kind::Angle, 0.0),
+            first_clock_rad: r.opt(
+                fs.first_clock.as_ref(),
+                "airframe.fins.first_clock",
+                Kind::Angle,
+                0.0,
+            ),
             thickness_m: r.positive(&fs.thickness, "airframe.fins.thickness", Kind::Length),
             mass_kg: r.opt_non_negative(fs.mass.as_ref(), "airframe.fins.mass", Kind::Mass, 0.0),
         };
         let aft = nose.length_m + tube_length_m;
         if fins.station_m + fins.root_chord_m > aft + 1e-9 {
-            r.problem(fs.station.span(), "airframe.fins.station", format!("the fin root runs past the aft end of the tube (station {:.1} mm)", aft * 1e3));
+            r.problem(
+                fs.station.span(),
+                "airframe.fins.station",
+                format!(
+                    "the fin root runs past the aft end of the tube (station {:.1} mm)",
+                    aft * 1e3
+                ),
+            );
         }
         fins
     });
@@ -255,7 +322,11 @@ fn read_keep_out(r: &mut Reader, k: &Spanned<KeepOutFile>) -> KeepOut {
             let a = r.non_negative(from, &format!("{field}.from"), Kind::Length);
             let b = r.non_negative(to, &format!("{field}.to"), Kind::Length);
             if a.is_finite() && b.is_finite() && b <= a {
-                r.problem(to.span(), &format!("{field}.to"), "expected a station aft of `from`");
+                r.problem(
+                    to.span(),
+                    &format!("{field}.to"),
+                    "expected a station aft of `from`",
+                );
             }
             Zone::Band {
                 from_station_m: a,
@@ -319,14 +390,29 @@ fn read_mass(r: &mut Reader, m: &Spanned<MassFile>) -> MassComponent {
     let kind = r.choice(
         m.shape.as_ref(),
         &format!("{field}.shape"),
-        &[("point", K::Point), ("tube", K::Tube), ("cylinder", K::Cylinder), ("cone", K::Cone)],
+        &[
+            ("point", K::Point),
+            ("tube", K::Tube),
+            ("cylinder", K::Cylinder),
+            ("cone", K::Cone),
+        ],
         K::Point,
     );
     let shape = match kind {
         K::Point => Shape::Point {
             station_m: station,
-            radial_m: r.opt_non_negative(m.offset.as_ref(), &format!("{field}.offset"), Kind::Length, 0.0),
-            clock_rad: r.opt(m.clock.as_ref(), &format!("{field}.clock"), Kind::Angle, 0.0),
+            radial_m: r.opt_non_negative(
+                m.offset.as_ref(),
+                &format!("{field}.offset"),
+                Kind::Length,
+                0.0,
+            ),
+            clock_rad: r.opt(
+                m.clock.as_ref(),
+                &format!("{field}.clock"),
+                Kind::Angle,
+                0.0,
+            ),
         },
         K::Tube => {
             let length_m = need(&m.length, "length", r);
@@ -336,7 +422,11 @@ fn read_mass(r: &mut Reader, m: &Spanned<MassFile>) -> MassComponent {
                 None => 0.0,
             };
             if inner >= outer {
-                r.problem(span.clone(), &format!("{field}.inner_diameter"), "inner diameter must be less than the outer diameter");
+                r.problem(
+                    span.clone(),
+                    &format!("{field}.inner_diameter"),
+                    "inner diameter must be less than the outer diameter",
+                );
             }
             Shape::Tube {
                 fore_station_m: station,
@@ -367,7 +457,11 @@ fn read_motor(r: &mut Reader, m: &MotorFile) -> Motor {
     let loaded = r.positive(&m.loaded_mass, "motor.loaded_mass", Kind::Mass);
     let burnout = r.positive(&m.burnout_mass, "motor.burnout_mass", Kind::Mass);
     if loaded.is_finite() && burnout.is_finite() && burnout > loaded {
-        r.problem(m.burnout_mass.span(), "motor.burnout_mass", "burnout mass must not exceed the loaded mass");
+        r.problem(
+            m.burnout_mass.span(),
+            "motor.burnout_mass",
+            "burnout mass must not exceed the loaded mass",
+        );
     }
     Motor {
         loaded_mass_kg: loaded,
@@ -398,7 +492,11 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
             // Tanks are filled on the ground: a gauge fill pressure refers to sea-level standard atmosphere.
             let pa = r.pressure_abs(p, "feed.tank.fill_pressure", STANDARD_ATMOSPHERE_PA);
             if pa.is_finite() && pa <= 0.0 {
-                r.problem(p.span(), "feed.tank.fill_pressure", "expected a pressure above vacuum");
+                r.problem(
+                    p.span(),
+                    "feed.tank.fill_pressure",
+                    "expected a pressure above vacuum",
+                );
             }
             FillSpec::Pressure { pressure_pa: pa }
         }
@@ -406,7 +504,11 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
             mass_kg: r.positive(m, "feed.tank.fill_mass", Kind::Mass),
         },
         _ => {
-            r.problem(tank_span, "feed.tank", "give exactly one of `fill_pressure` or `fill_mass`");
+            r.problem(
+                tank_span,
+                "feed.tank",
+                "give exactly one of `fill_pressure` or `fill_mass`",
+            );
             FillSpec::Mass { mass_kg: f64::NAN }
         }
     };
@@ -418,7 +520,12 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
         fore_station_m: r.non_negative(&t.station, "feed.tank.station", Kind::Length),
         length_m: r.positive(&t.length, "feed.tank.length", Kind::Length),
         diameter_m: r.positive(&t.diameter, "feed.tank.diameter", Kind::Length),
-        outlet: r.choice(t.outlet.as_ref(), "feed.tank.outlet", &[("fore", TankOutlet::Fore), ("aft", TankOutlet::Aft)], TankOutlet::Fore),
+        outlet: r.choice(
+            t.outlet.as_ref(),
+            "feed.tank.outlet",
+            &[("fore", TankOutlet::Fore), ("aft", TankOutlet::Aft)],
+            TankOutlet::Fore,
+        ),
     };
 
     let g = f.regulator.get_ref();
@@ -434,7 +541,11 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
             }
             let gauge = p.gauge_pa(STANDARD_ATMOSPHERE_PA);
             if gauge <= 0.0 {
-                r.problem(g.set_pressure.span(), set_field, "expected a set pressure above ambient");
+                r.problem(
+                    g.set_pressure.span(),
+                    set_field,
+                    "expected a set pressure above ambient",
+                );
             }
             gauge
         }
@@ -443,14 +554,16 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
             f64::NAN
         }
     };
-    let dropout = g
-        .dropout_margin
-        .as_ref()
-        .map_or(0.0, |q| r.pressure_difference(q, "feed.regulator.dropout_margin"));
+    let dropout = g.dropout_margin.as_ref().map_or(0.0, |q| {
+        r.pressure_difference(q, "feed.regulator.dropout_margin")
+    });
     if let FillSpec::Pressure { pressure_pa } = tank.fill {
         let end = set_gauge + dropout + STANDARD_ATMOSPHERE_PA;
         if pressure_pa.is_finite() && end.is_finite() && end >= pressure_pa {
-            let q = t.fill_pressure.as_ref().map_or(g.set_pressure.span(), |q| q.span());
+            let q = t
+                .fill_pressure
+                .as_ref()
+                .map_or(g.set_pressure.span(), |q| q.span());
             r.problem(
                 q,
                 "feed.tank.fill_pressure",
@@ -465,14 +578,24 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
         (None, None, None) => SupplyCapacity::Unlimited,
         (Some(cv), None, None) => SupplyCapacity::Cv {
             cv: r.positive_number(cv, "feed.regulator.supply_cv"),
-            xt: r.fraction(g.supply_xt.as_ref(), "feed.regulator.supply_xt", 0.7, 0.05, 1.0),
+            xt: r.fraction(
+                g.supply_xt.as_ref(),
+                "feed.regulator.supply_xt",
+                0.7,
+                0.05,
+                1.0,
+            ),
         },
         (None, Some(d), Some(at)) => SupplyCapacity::Droop {
             droop_pa: r.pressure_difference(d, "feed.regulator.droop"),
             at_flow_kg_s: r.positive(at, "feed.regulator.droop_at", Kind::MassFlow),
         },
         _ => {
-            r.problem(f.regulator.span(), "feed.regulator", "give either `supply_cv` or both `droop` and `droop_at`, not a mix");
+            r.problem(
+                f.regulator.span(),
+                "feed.regulator",
+                "give either `supply_cv` or both `droop` and `droop_at`, not a mix",
+            );
             SupplyCapacity::Unlimited
         }
     };
@@ -490,10 +613,20 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
         },
         (None, Some(d)) => ValveFlow::Orifice {
             diameter_m: r.positive(d, "feed.valve.orifice", Kind::Length),
-            discharge_coefficient: r.fraction(v.discharge_coefficient.as_ref(), "feed.valve.discharge_coefficient", 0.8, 0.05, 1.0),
+            discharge_coefficient: r.fraction(
+                v.discharge_coefficient.as_ref(),
+                "feed.valve.discharge_coefficient",
+                0.8,
+                0.05,
+                1.0,
+            ),
         },
         _ => {
-            r.problem(f.valve.span(), "feed.valve", "give exactly one of `cv` or `orifice`");
+            r.problem(
+                f.valve.span(),
+                "feed.valve",
+                "give exactly one of `cv` or `orifice`",
+            );
             ValveFlow::Cv { cv: 1.0, xt: 0.7 }
         }
     };
@@ -513,7 +646,11 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
 
 fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port> {
     if raw.port.is_empty() {
-        r.problem(0..0, "port", "the layout has no ports: add at least one [[port]] section");
+        r.problem(
+            0..0,
+            "port",
+            "the layout has no ports: add at least one [[port]] section",
+        );
         return Vec::new();
     }
     let mut seen: HashMap<String, usize> = HashMap::new();
@@ -527,11 +664,21 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
             r.problem(p.name.span(), "port.name", "expected a non-empty name");
         }
         if let Some(first_line) = seen.get(&name) {
-            r.problem(p.name.span(), &format!("{field}.name"), format!("duplicate port name (first used on line {first_line})"));
+            r.problem(
+                p.name.span(),
+                &format!("{field}.name"),
+                format!("duplicate port name (first used on line {first_line})"),
+            );
         } else {
             seen.insert(name.clone(), line_column(r.text, p.name.span().start).0);
         }
-        let cd = r.fraction(p.discharge_coefficient.as_ref(), &format!("{field}.discharge_coefficient"), 0.85, 0.05, 1.0);
+        let cd = r.fraction(
+            p.discharge_coefficient.as_ref(),
+            &format!("{field}.discharge_coefficient"),
+            0.85,
+            0.05,
+            1.0,
+        );
         let nozzle = match (&p.hole, &p.throat, &p.exit) {
             (Some(h), None, None) => NozzleSpec::Hole {
                 diameter_m: r.positive(h, &format!("{field}.hole"), Kind::Length),
@@ -541,7 +688,11 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
                 let throat = r.positive(t, &format!("{field}.throat"), Kind::Length);
                 let exit = r.positive(e, &format!("{field}.exit"), Kind::Length);
                 if throat.is_finite() && exit.is_finite() && exit < throat {
-                    r.problem(e.span(), &format!("{field}.exit"), "the exit diameter must be at least the throat diameter");
+                    r.problem(
+                        e.span(),
+                        &format!("{field}.exit"),
+                        "the exit diameter must be at least the throat diameter",
+                    );
                 }
                 NozzleSpec::ConvergingDiverging {
                     throat_diameter_m: throat,
@@ -550,19 +701,40 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
                 }
             }
             _ => {
-                r.problem(span.clone(), &field, "give either `hole`, or both `throat` and `exit`");
+                r.problem(
+                    span.clone(),
+                    &field,
+                    "give either `hole`, or both `throat` and `exit`",
+                );
                 NozzleSpec::Hole {
                     diameter_m: f64::NAN,
                     discharge_coefficient: cd,
                 }
             }
         };
-        let tang = r.opt(p.tangential_cant.as_ref(), &format!("{field}.tangential_cant"), Kind::Angle, 0.0);
-        let axial = r.opt(p.axial_cant.as_ref(), &format!("{field}.axial_cant"), Kind::Angle, 0.0);
-        for (v, q, n) in [(tang, &p.tangential_cant, "tangential_cant"), (axial, &p.axial_cant, "axial_cant")] {
+        let tang = r.opt(
+            p.tangential_cant.as_ref(),
+            &format!("{field}.tangential_cant"),
+            Kind::Angle,
+            0.0,
+        );
+        let axial = r.opt(
+            p.axial_cant.as_ref(),
+            &format!("{field}.axial_cant"),
+            Kind::Angle,
+            0.0,
+        );
+        for (v, q, n) in [
+            (tang, &p.tangential_cant, "tangential_cant"),
+            (axial, &p.axial_cant, "axial_cant"),
+        ] {
             if v.abs() > std::f64::consts::FRAC_PI_2 + 1e-9 {
                 if let Some(q) = q {
-                    r.problem(q.span(), &format!("{field}.{n}"), "expected a cant from -90 deg to 90 deg");
+                    r.problem(
+                        q.span(),
+                        &format!("{field}.{n}"),
+                        "expected a cant from -90 deg to 90 deg",
+                    );
                 }
             }
         }
@@ -574,10 +746,15 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
             axial_cant_rad: axial,
             nozzle,
         };
-        let all_finite = [port.station_m, port.clock_rad, port.nozzle.hole_diameter_m()]
-            .iter()
-            .all(|v| v.is_finite());
-        if all_finite && airframe.outer_diameter_m.is_finite() && airframe.tube_length_m.is_finite() {
+        let all_finite = [
+            port.station_m,
+            port.clock_rad,
+            port.nozzle.hole_diameter_m(),
+        ]
+        .iter()
+        .all(|v| v.is_finite());
+        if all_finite && airframe.outer_diameter_m.is_finite() && airframe.tube_length_m.is_finite()
+        {
             match first_conflict(airframe, &port, PLACEMENT_MARGIN_M) {
                 None => {}
                 Some(Conflict::OutsideTube {
@@ -610,16 +787,49 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
 }
 
 fn read_requirements(r: &mut Reader, q: &RequirementsFile) -> Requirements {
-    let roll = r.non_negative(&q.roll_accel, "requirements.roll_accel", Kind::AngularAcceleration);
-    let pitch = r.non_negative(&q.pitch_accel, "requirements.pitch_accel", Kind::AngularAcceleration);
+    let roll = r.non_negative(
+        &q.roll_accel,
+        "requirements.roll_accel",
+        Kind::AngularAcceleration,
+    );
+    let pitch = r.non_negative(
+        &q.pitch_accel,
+        "requirements.pitch_accel",
+        Kind::AngularAcceleration,
+    );
     Requirements {
         roll_accel_rad_s2: roll,
         pitch_accel_rad_s2: pitch,
-        yaw_accel_rad_s2: r.opt_non_negative(q.yaw_accel.as_ref(), "requirements.yaw_accel", Kind::AngularAcceleration, pitch),
-        motor_thrust_n: r.opt_non_negative(q.motor_thrust.as_ref(), "requirements.motor_thrust", Kind::Force, 0.0),
-        thrust_misalignment_rad: r.opt_non_negative(q.thrust_misalignment.as_ref(), "requirements.thrust_misalignment", Kind::Angle, 0.0),
-        roll_disturbance_n_m: r.opt_non_negative(q.roll_disturbance.as_ref(), "requirements.roll_disturbance", Kind::Torque, 0.0),
-        hold_time_s: r.opt_non_negative(q.hold_time.as_ref(), "requirements.hold_time", Kind::Time, 0.0),
+        yaw_accel_rad_s2: r.opt_non_negative(
+            q.yaw_accel.as_ref(),
+            "requirements.yaw_accel",
+            Kind::AngularAcceleration,
+            pitch,
+        ),
+        motor_thrust_n: r.opt_non_negative(
+            q.motor_thrust.as_ref(),
+            "requirements.motor_thrust",
+            Kind::Force,
+            0.0,
+        ),
+        thrust_misalignment_rad: r.opt_non_negative(
+            q.thrust_misalignment.as_ref(),
+            "requirements.thrust_misalignment",
+            Kind::Angle,
+            0.0,
+        ),
+        roll_disturbance_n_m: r.opt_non_negative(
+            q.roll_disturbance.as_ref(),
+            "requirements.roll_disturbance",
+            Kind::Torque,
+            0.0,
+        ),
+        hold_time_s: r.opt_non_negative(
+            q.hold_time.as_ref(),
+            "requirements.hold_time",
+            Kind::Time,
+            0.0,
+        ),
     }
 }
 
@@ -635,22 +845,47 @@ fn read_states(r: &mut Reader, raw: &LayoutFile) -> Vec<FlightState> {
         let name = s.name.get_ref().trim().to_string();
         let field = format!("state `{name}`");
         if names.insert(name.clone(), ()).is_some() {
-            r.problem(s.name.span(), &format!("{field}.name"), "duplicate flight-state name");
+            r.problem(
+                s.name.span(),
+                &format!("{field}.name"),
+                "duplicate flight-state name",
+            );
         }
-        let altitude_m = r.opt(s.altitude.as_ref(), &format!("{field}.altitude"), Kind::Length, 0.0);
+        let altitude_m = r.opt(
+            s.altitude.as_ref(),
+            &format!("{field}.altitude"),
+            Kind::Length,
+            0.0,
+        );
         if !(-500.0..=86_000.0).contains(&altitude_m) {
             if let Some(q) = &s.altitude {
-                r.problem(q.span(), &format!("{field}.altitude"), "expected an altitude from -500 m to 86 km (the standard atmosphere's range)");
+                r.problem(
+                    q.span(),
+                    &format!("{field}.altitude"),
+                    "expected an altitude from -500 m to 86 km (the standard atmosphere's range)",
+                );
             }
         }
         let motor = r.choice(
             Some(&s.motor),
             &format!("{field}.motor"),
-            &[("burning", MotorCondition::Burning), ("burnout", MotorCondition::Burnout)],
+            &[
+                ("burning", MotorCondition::Burning),
+                ("burnout", MotorCondition::Burnout),
+            ],
             MotorCondition::Burning,
         );
-        let gas_remaining = r.fraction(s.gas_remaining.as_ref(), &format!("{field}.gas_remaining"), 1.0, 0.0, 1.0);
-        let pos = |q: &Option<Q>, n: &str, kind: Kind, r: &mut Reader| q.as_ref().map(|q| r.positive(q, &format!("{field}.{n}"), kind));
+        let gas_remaining = r.fraction(
+            s.gas_remaining.as_ref(),
+            &format!("{field}.gas_remaining"),
+            1.0,
+            0.0,
+            1.0,
+        );
+        let pos = |q: &Option<Q>, n: &str, kind: Kind, r: &mut Reader| {
+            q.as_ref()
+                .map(|q| r.positive(q, &format!("{field}.{n}"), kind))
+        };
         let mass_override = MassOverride {
             mass_kg: pos(&s.mass, "mass", Kind::Mass, r),
             cg_station_m: pos(&s.cg, "cg", Kind::Length, r),

@@ -32,7 +32,11 @@ impl fmt::Display for Diagnostic {
         if self.field.is_empty() {
             write!(f, "{}:{}: {}", self.line, self.column, self.message)
         } else {
-            write!(f, "{}:{}: {}: {}", self.line, self.column, self.field, self.message)
+            write!(
+                f,
+                "{}:{}: {}: {}",
+                self.line, self.column, self.field, self.message
+            )
         }
     }
 }

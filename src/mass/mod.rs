@@ -38,7 +38,11 @@ impl MassProperties {
 
     /// A body of `mass_kg` with its centroid at `centroid` (body frame, m) and
     /// inertia tensor `inertia_about_centroid` (body axes, kg·m²).
-    pub fn from_centroid(mass_kg: f64, centroid: Vector3<f64>, inertia_about_centroid: Matrix3<f64>) -> Self {
+    pub fn from_centroid(
+        mass_kg: f64,
+        centroid: Vector3<f64>,
+        inertia_about_centroid: Matrix3<f64>,
+    ) -> Self {
         Self {
             mass_kg,
             first_moment_kg_m: centroid * mass_kg,
@@ -152,7 +156,11 @@ mod tests {
     use approx::assert_relative_eq;
 
     fn part(m: f64, x: f64, y: f64) -> MassProperties {
-        MassProperties::from_centroid(m, Vector3::new(x, y, 0.0), Matrix3::from_diagonal(&Vector3::new(0.1, 0.2, 0.3)) * m)
+        MassProperties::from_centroid(
+            m,
+            Vector3::new(x, y, 0.0),
+            Matrix3::from_diagonal(&Vector3::new(0.1, 0.2, 0.3)) * m,
+        )
     }
 
     // Steiner's parallel-axis theorem (any dynamics text, e.g. Meriam & Kraige,

@@ -27,14 +27,24 @@ fn axisymmetric(mass_kg: f64, centroid_station_m: f64, ixx: f64, itrans: f64) ->
 pub fn point(mass_kg: f64, station_m: f64, radial_m: f64, clock_rad: f64) -> MassProperties {
     MassProperties::from_centroid(
         mass_kg,
-        Vector3::new(-station_m, radial_m * clock_rad.cos(), radial_m * clock_rad.sin()),
+        Vector3::new(
+            -station_m,
+            radial_m * clock_rad.cos(),
+            radial_m * clock_rad.sin(),
+        ),
         Matrix3::zeros(),
     )
 }
 
 /// A thick-walled tube: Ixx = m(Ro² + Ri²)/2, Iyy = m(3(Ro² + Ri²) + L²)/12
 /// (hollow cylinder, e.g. Meriam & Kraige, Dynamics, table D/4).
-pub fn tube(mass_kg: f64, fore_station_m: f64, length_m: f64, outer_d_m: f64, inner_d_m: f64) -> MassProperties {
+pub fn tube(
+    mass_kg: f64,
+    fore_station_m: f64,
+    length_m: f64,
+    outer_d_m: f64,
+    inner_d_m: f64,
+) -> MassProperties {
     let r2 = 0.25 * (outer_d_m * outer_d_m + inner_d_m * inner_d_m);
     let ixx = 0.5 * mass_kg * r2;
     let itrans = mass_kg * (3.0 * r2 + length_m * length_m) / 12.0;
@@ -42,13 +52,23 @@ pub fn tube(mass_kg: f64, fore_station_m: f64, length_m: f64, outer_d_m: f64, in
 }
 
 /// A solid cylinder: the tube with no bore, Ixx = mR²/2, Iyy = m(3R² + L²)/12.
-pub fn cylinder(mass_kg: f64, fore_station_m: f64, length_m: f64, diameter_m: f64) -> MassProperties {
+pub fn cylinder(
+    mass_kg: f64,
+    fore_station_m: f64,
+    length_m: f64,
+    diameter_m: f64,
+) -> MassProperties {
     tube(mass_kg, fore_station_m, length_m, diameter_m, 0.0)
 }
 
 /// A thin conical shell (lateral surface only), apex forward: centroid 2h/3 aft of
 /// the apex, Ixx = mR²/2, Iyy about the centroid = m(R²/4 + h²/18).
-pub fn cone_shell(mass_kg: f64, apex_station_m: f64, length_m: f64, base_d_m: f64) -> MassProperties {
+pub fn cone_shell(
+    mass_kg: f64,
+    apex_station_m: f64,
+    length_m: f64,
+    base_d_m: f64,
+) -> MassProperties {
     let r = 0.5 * base_d_m;
     let h = length_m;
     axisymmetric(
@@ -61,7 +81,13 @@ pub fn cone_shell(mass_kg: f64, apex_station_m: f64, length_m: f64, base_d_m: f6
 
 /// A thin shell of revolution with the given nose profile, tip at station 0 + `tip_station_m`.
 /// Mass is spread in proportion to surface area; each frustum band is a thin ring.
-pub fn nose_shell(mass_kg: f64, tip_station_m: f64, shape: NoseShape, length_m: f64, base_d_m: f64) -> MassProperties {
+pub fn nose_shell(
+    mass_kg: f64,
+    tip_station_m: f64,
+    shape: NoseShape,
+    length_m: f64,
+    base_d_m: f64,
+) -> MassProperties {
     let r_base = 0.5 * base_d_m;
     let n = SHELL_SEGMENTS;
     let dx = length_m / n as f64;
@@ -107,7 +133,8 @@ pub fn fin_set(fins: &Fins, root_radius_m: f64) -> MassProperties {
     for clock in fins.clocks_rad() {
         let (sn, cs) = clock.sin_cos();
         // Accumulate area-weighted moments of the plate in (station, radius).
-        let (mut area, mut m_s, mut m_r, mut m_ss, mut m_rr, mut m_sr) = (0.0, 0.0, 0.0, 0.0, 0.0, 0.0);
+        let (mut area, mut m_s, mut m_r, mut m_ss, mut m_rr, mut m_sr) =
+            (0.0, 0.0, 0.0, 0.0, 0.0, 0.0);
         for &(u, wu) in &GAUSS5 {
             let h = u * fins.span_m;
             let chord = fins.root_chord_m + (fins.tip_chord_m - fins.root_chord_m) * u;
@@ -136,7 +163,9 @@ pub fn fin_set(fins: &Fins, root_radius_m: f64) -> MassProperties {
         let inertia_origin = Matrix3::identity() * j.trace() - j;
         let centroid = Vector3::new(-k * m_s, k * m_r * cs, k * m_r * sn) / per_fin;
         // Build from the origin tensor: shift it to the centroid first.
-        let shift = (Matrix3::identity() * centroid.norm_squared() - centroid * centroid.transpose()) * per_fin;
+        let shift = (Matrix3::identity() * centroid.norm_squared()
+            - centroid * centroid.transpose())
+            * per_fin;
         total = total + MassProperties::from_centroid(per_fin, centroid, inertia_origin - shift);
     }
     total
@@ -162,7 +191,11 @@ mod tests {
     fn thin_tube_limit_is_mr2() {
         // A thin ring has Ixx = mR² (Meriam & Kraige table D/4, thin ring).
         let t = tube(1.0, 0.0, 0.01, 0.100, 0.0999999);
-        assert_relative_eq!(t.inertia_about_cg()[(0, 0)], 0.05 * 0.05, max_relative = 1e-5);
+        assert_relative_eq!(
+            t.inertia_about_cg()[(0, 0)],
+            0.05 * 0.05,
+            max_relative = 1e-5
+        );
     }
 
     #[test]
@@ -173,12 +206,20 @@ mod tests {
         // bands is exact for the cone's linear profile up to rounding.
         let exact = cone_shell(0.3, 0.0, 0.25, 0.1);
         let numeric = nose_shell(0.3, 0.0, NoseShape::Conical, 0.25, 0.1);
-        assert_relative_eq!(numeric.cg_station_m(), exact.cg_station_m(), max_relative = 1e-5);
+        assert_relative_eq!(
+            numeric.cg_station_m(),
+            exact.cg_station_m(),
+            max_relative = 1e-5
+        );
         let (a, b) = (numeric.inertia_about_cg(), exact.inertia_about_cg());
         assert_relative_eq!(a[(0, 0)], b[(0, 0)], max_relative = 1e-5);
         assert_relative_eq!(a[(1, 1)], b[(1, 1)], max_relative = 1e-5);
         let apex = exact.inertia_about_origin()[(1, 1)];
-        assert_relative_eq!(apex, 0.3 * (0.05 * 0.05 / 4.0 + 0.25 * 0.25 / 2.0), max_relative = 1e-12);
+        assert_relative_eq!(
+            apex,
+            0.3 * (0.05 * 0.05 / 4.0 + 0.25 * 0.25 / 2.0),
+            max_relative = 1e-12
+        );
     }
 
     #[test]
@@ -189,7 +230,11 @@ mod tests {
         let r = 0.05;
         let h = nose_shell(1.0, 0.0, NoseShape::Elliptical, r, 2.0 * r);
         assert_relative_eq!(h.cg_station_m(), r - r / 2.0, max_relative = 1e-4);
-        assert_relative_eq!(h.inertia_about_cg()[(0, 0)], 2.0 / 3.0 * r * r, max_relative = 1e-4);
+        assert_relative_eq!(
+            h.inertia_about_cg()[(0, 0)],
+            2.0 / 3.0 * r * r,
+            max_relative = 1e-4
+        );
     }
 
     #[test]

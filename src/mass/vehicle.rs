@@ -9,7 +9,11 @@ use super::{shapes, MassProperties, MassSummary};
 use crate::model::{Design, FlightState, MotorCondition, Shape};
 
 /// Mass properties of the vehicle at a state, before any measured override.
-pub fn vehicle_properties(design: &Design, state: &FlightState, gas_mass_kg: f64) -> MassProperties {
+pub fn vehicle_properties(
+    design: &Design,
+    state: &FlightState,
+    gas_mass_kg: f64,
+) -> MassProperties {
     let a = &design.airframe;
     let mut parts = Vec::new();
     if a.tube_mass_kg > 0.0 {
@@ -22,7 +26,13 @@ pub fn vehicle_properties(design: &Design, state: &FlightState, gas_mass_kg: f64
         ));
     }
     if a.nose.mass_kg > 0.0 {
-        parts.push(shapes::nose_shell(a.nose.mass_kg, 0.0, a.nose.shape, a.nose.length_m, a.outer_diameter_m));
+        parts.push(shapes::nose_shell(
+            a.nose.mass_kg,
+            0.0,
+            a.nose.shape,
+            a.nose.length_m,
+            a.outer_diameter_m,
+        ));
     }
     if let Some(f) = &a.fins {
         if f.mass_kg > 0.0 {
@@ -41,7 +51,13 @@ pub fn vehicle_properties(design: &Design, state: &FlightState, gas_mass_kg: f64
                 length_m,
                 outer_diameter_m,
                 inner_diameter_m,
-            } => shapes::tube(c.mass_kg, fore_station_m, length_m, outer_diameter_m, inner_diameter_m),
+            } => shapes::tube(
+                c.mass_kg,
+                fore_station_m,
+                length_m,
+                outer_diameter_m,
+                inner_diameter_m,
+            ),
             Shape::Cylinder {
                 fore_station_m,
                 length_m,
@@ -57,16 +73,38 @@ pub fn vehicle_properties(design: &Design, state: &FlightState, gas_mass_kg: f64
     let m = &design.motor;
     // The empty case is a thin tube; 1 mm wall is representative of hobby motor cases.
     let case_inner = (m.diameter_m - 2e-3).max(0.0);
-    parts.push(shapes::tube(m.burnout_mass_kg, m.fore_station_m, m.length_m, m.diameter_m, case_inner));
+    parts.push(shapes::tube(
+        m.burnout_mass_kg,
+        m.fore_station_m,
+        m.length_m,
+        m.diameter_m,
+        case_inner,
+    ));
     if state.motor == MotorCondition::Burning {
         let propellant = m.loaded_mass_kg - m.burnout_mass_kg;
-        parts.push(shapes::cylinder(propellant, m.fore_station_m, m.length_m, case_inner));
+        parts.push(shapes::cylinder(
+            propellant,
+            m.fore_station_m,
+            m.length_m,
+            case_inner,
+        ));
     }
     let t = &design.feed.tank;
     let t_inner = (t.diameter_m - 4e-3).max(0.5 * t.diameter_m);
-    parts.push(shapes::tube(t.empty_mass_kg, t.fore_station_m, t.length_m, t.diameter_m, t_inner));
+    parts.push(shapes::tube(
+        t.empty_mass_kg,
+        t.fore_station_m,
+        t.length_m,
+        t.diameter_m,
+        t_inner,
+    ));
     if gas_mass_kg > 0.0 {
-        parts.push(shapes::cylinder(gas_mass_kg, t.fore_station_m, t.length_m, t_inner));
+        parts.push(shapes::cylinder(
+            gas_mass_kg,
+            t.fore_station_m,
+            t.length_m,
+            t_inner,
+        ));
     }
     parts.into_iter().sum()
 }

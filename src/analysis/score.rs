@@ -129,3 +129,86 @@ mod tests {
         assert!((ray_limit(&cols, &Vector3::new(-1.0, 0.0, 0.0)) - 0.02).abs() < 1e-12);
     }
 }
+
+/// The real merit for the optimiser: worst authority margin over axes, senses and
+/// flight states, with per-state thrusts fixed except for hole sizes, which are
+/// looked up in a table computed once for every drill size the freedoms offer.
+#[derive(Debug, Clone)]
+pub struct MarginScore {
+    design: Design,
+    states: Vec<StateInputs>,
+    /// Per state: (hole diameter, thrust) sorted by diameter.
+    hole_thrust: Vec<Vec<(f64, f64)>>,
+}
+
+impl MarginScore {
+    /// Build from an analysis of the starting design and the drill sizes the
+    /// optimiser may choose (empty when hole sizes stay fixed).
+    pub fn new(design: &Design, analysis: &super::Analysis, hole_sizes_m: &[f64]) -> Result<Self, super::AnalysisError> {
+        let mut states = Vec::new();
+        let mut hole_thrust = Vec::new();
+        for s in &analysis.states {
+            states.push(StateInputs {
+                cg: s.mass.cg(),
+                required_n_m: s.required.total_n_m(),
+                thrust_n: s.ports.iter().map(|p| p.thrust_n).collect(),
+            });
+            let mut table = Vec::new();
+            for &d in hole_sizes_m {
+                let mut trial = design.clone();
+                for p in &mut trial.ports {
+                    p.nozzle = crate::model::NozzleSpec::Hole {
+                        diameter_m: d,
+                        discharge_coefficient: match p.nozzle {
+                            crate::model::NozzleSpec::Hole { discharge_coefficient, .. } => discharge_coefficient,
+                            crate::model::NozzleSpec::ConvergingDiverging { discharge_coefficient, .. } => discharge_coefficient,
+                        },
+                    };
+                }
+                let at = super::feed::ports_at(&trial, &s.name, s.ambient_pressure_pa)?;
+                table.push((d, at.ports[0].thrust_n));
+            }
+            table.sort_by(|a, b| a.0.total_cmp(&b.0));
+            hole_thrust.push(table);
+        }
+        Ok(Self {
+            design: design.clone(),
+            states,
+            hole_thrust,
+        })
+    }
+
+    /// Merit of a set of ports (the design's ports, moved), with `scratch` reused.
+    pub fn merit(&self, ports: &[Port], scratch: &mut (Vec<Vector3<f64>>, Vec<StateInputs>)) -> f64 {
+        let (columns, states) = scratch;
+        if states.len() != self.states.len() {
+            *states = self.states.clone();
+        }
+        for (k, s) in states.iter_mut().enumerate() {
+            for (i, p) in ports.iter().enumerate() {
+                let original = &self.design.ports[i];
+                s.thrust_n[i] = if p.nozzle == original.nozzle {
+                    self.states[k].thrust_n[i]
+                } else {
+                    let d = p.nozzle.hole_diameter_m();
+                    let t = &self.hole_thrust[k];
+                    match t.binary_search_by(|e| e.0.total_cmp(&d)) {
+                        Ok(j) => t[j].1,
+                        Err(_) => self.states[k].thrust_n[i],
+                    }
+                };
+            }
+        }
+        worst_margin(&self.design, ports, states, columns)
+    }
+}
+
+impl crate::optimize::problem::LayoutScore for MarginScore {
+    type Scratch = (Vec<Vector3<f64>>, Vec<StateInputs>);
+    fn scratch(&self) -> Self::Scratch {
+        (Vec::with_capacity(self.design.ports.len()), self.states.clone())
+    }
+    fn score(&self, ports: &[Port], scratch: &mut Self::Scratch) -> f64 {
+        self.merit(ports, scratch)
+    }
+}

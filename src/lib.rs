@@ -2,4 +2,5 @@
 #![deny(missing_docs)]
 
 pub mod allocation;
+pub mod export;
 pub mod gas;

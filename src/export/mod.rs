@@ -8,9 +8,11 @@
 //! - [`stl`]: airframe, drill axes and exhaust markers as binary STL in millimetres,
 //!   body frame (origin at the nose tip, +x toward the nose, +y through clock 0°).
 //! - [`template`]: the tube's outer surface unrolled at 1:1, paged onto A4 or Letter.
+//! - [`firmware`]: allocation tables for flight firmware (C header, CSV, JSON).
 //! - [`mesh`]: the indexed triangle mesh both STL and tests use, with the check that
 //!   every shell is closed, consistently oriented and facing outward.
 
+pub mod firmware;
 pub mod mesh;
 pub mod stl;
 pub mod template;

@@ -1,6 +1,8 @@
 //! Command-line definitions and the glue from arguments to library calls.
 
 pub mod allocate;
+pub mod optimize;
+pub mod table;
 pub mod output;
 
 use clap::{Parser, Subcommand};
@@ -46,4 +48,64 @@ pub enum Command {
         #[arg(long)]
         json: bool,
     },
+    /// Firmware allocation tables: on/off valve sets, the exact duty-cycle map, optional grid.
+    Table {
+        /// Layout file (TOML).
+        layout: PathBuf,
+        /// Output format.
+        #[arg(long, value_enum, default_value = "c")]
+        format: TableFormat,
+        /// Output file.
+        #[arg(long)]
+        out: PathBuf,
+        /// Flight state (default: the first in the file).
+        #[arg(long)]
+        state: Option<String>,
+        /// Also tabulate a regular grid with this many points per axis (2–65).
+        #[arg(long)]
+        grid: Option<usize>,
+        /// On/off sets must reach this fraction of the best torque on commanded axes.
+        #[arg(long, default_value_t = 0.5)]
+        fraction: f64,
+        /// Torque allowed on uncommanded axes, as a fraction of that axis's best.
+        #[arg(long, default_value_t = 0.1)]
+        tolerance: f64,
+    },
+    /// Search port stations, clocks, cants and hole sizes for the best worst-case margin.
+    Optimize {
+        /// Layout file (TOML) with [[freedom]] sections saying what may move.
+        layout: PathBuf,
+        /// Where to write the improved layout.
+        #[arg(long, required_unless_present = "in_place")]
+        out: Option<PathBuf>,
+        /// Overwrite the input layout instead (atomically).
+        #[arg(long)]
+        in_place: bool,
+        /// Random seed: the same seed gives the same layout.
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
+        /// Largest number of layout evaluations.
+        #[arg(long, default_value_t = 20_000)]
+        max_evals: usize,
+        /// Stop after this many seconds and keep the best so far.
+        #[arg(long)]
+        time_limit: Option<f64>,
+        /// Write the convergence plot (SVG) here.
+        #[arg(long)]
+        plot: Option<PathBuf>,
+        /// Print the before/after report as JSON.
+        #[arg(long)]
+        json: bool,
+    },
+}
+
+/// Formats of the firmware tables.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum TableFormat {
+    /// C99 header.
+    C,
+    /// Comma-separated values.
+    Csv,
+    /// JSON.
+    Json,
 }

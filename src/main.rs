@@ -7,6 +7,8 @@ use clap::Parser;
 use cli::{output::write_atomic, Cli, Command};
 use portwright::layout::{self, LayoutError};
 use std::process::ExitCode;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
@@ -35,6 +37,47 @@ fn run(cli: Cli) -> Result<()> {
             let design = layout::load(&layout)?;
             let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
             print!("{}", cli::allocate::run(&design, &analysis, &torque, state.as_deref(), side_force.as_deref(), json)?);
+            Ok(())
+        }
+        Command::Table {
+            layout,
+            format,
+            out,
+            state,
+            grid,
+            fraction,
+            tolerance,
+        } => {
+            let design = layout::load(&layout)?;
+            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let text = cli::table::render(&design, &analysis, state.as_deref(), format, grid, fraction, tolerance)?;
+            write_atomic(&out, text.as_bytes(), &[&layout], false)?;
+            eprintln!("wrote {}", out.display());
+            Ok(())
+        }
+        Command::Optimize {
+            layout,
+            out,
+            in_place,
+            seed,
+            max_evals,
+            time_limit,
+            plot,
+            json,
+        } => {
+            let text = std::fs::read_to_string(&layout).with_context(|| format!("{}: cannot read the layout", layout.display()))?;
+            let stop = Arc::new(AtomicBool::new(false));
+            let flag = stop.clone();
+            // Ctrl-C asks the search to stop; the best layout so far is still written.
+            let _ = ctrlc::set_handler(move || flag.store(true, Ordering::SeqCst));
+            let result = cli::optimize::run(&text, &layout.display().to_string(), seed, max_evals, time_limit, json, &stop)?;
+            let target = if in_place { layout.clone() } else { out.clone().context("--out is required")? };
+            write_atomic(&target, result.layout_text.as_bytes(), &[&layout], in_place)?;
+            if let (Some(p), Some(svg)) = (plot, result.plot_svg) {
+                write_atomic(&p, svg.as_bytes(), &[&layout], false)?;
+            }
+            print!("{}", result.report);
+            eprintln!("wrote {}", target.display());
             Ok(())
         }
         Command::Analyze { layout, json, out } => {

@@ -1,6 +1,7 @@
-//! Geometry exports: STL meshes for CAD and a 1:1 SVG drilling template.
+//! Exports: STL meshes for CAD, a 1:1 SVG drilling template, plots and the HTML report.
 //!
-//! Every export is a pure function of the [`Design`](crate::model::Design) and a
+//! Every export is a pure function of its input (the [`Design`](crate::model::Design),
+//! or for plots and the report plain numbers and text) and a
 //! settings struct, returning bytes or strings; writing files is the caller's job.
 //! Output is deterministic (fixed vertex order, fixed number formatting) so it can
 //! be compared against committed files.
@@ -11,9 +12,14 @@
 //! - [`firmware`]: allocation tables for flight firmware (C header, CSV, JSON).
 //! - [`mesh`]: the indexed triangle mesh both STL and tests use, with the check that
 //!   every shell is closed, consistently oriented and facing outward.
+//! - [`plots`]: torque envelopes, authority, port thrust, gas remaining and search
+//!   progress as SVG (and PNG), from plain numbers.
+//! - [`html`]: one self-contained HTML report with inline CSS and inline SVG plots.
 
 pub mod firmware;
+pub mod html;
 pub mod mesh;
+pub mod plots;
 pub mod stl;
 pub mod template;
 
@@ -144,8 +150,8 @@ pub(crate) fn fmt3(v: f64) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use approx::assert_relative_eq;
     use crate::model::NoseShape;
+    use approx::assert_relative_eq;
 
     #[test]
     fn profiles_start_at_the_tip_and_meet_the_tube() {

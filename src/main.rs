@@ -80,6 +80,22 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("wrote {}", target.display());
             Ok(())
         }
+        Command::Run { layout, out } => {
+            eprintln!("reading {}", layout.display());
+            let design = layout::load(&layout)?;
+            eprintln!("analysing: mass properties, gas, port flows, envelopes");
+            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
+            eprintln!("building tables, meshes, template, plots and the report");
+            let files = portwright::export::bundle::bundle(&design, &analysis).map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+            print!("{}", portwright::report::render_text(&analysis));
+            println!();
+            for f in &files {
+                let path = out.join(&f.name);
+                write_atomic(&path, &f.bytes, &[&layout], false)?;
+                println!("wrote {} ({} bytes)", path.display(), f.bytes.len());
+            }
+            Ok(())
+        }
         Command::Analyze { layout, json, out } => {
             let design = layout::load(&layout)?;
             let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;

@@ -93,7 +93,12 @@ fn readme_commands_work() {
     for line in readme.lines() {
         let cmd = line.split('#').next().unwrap().trim();
         if let Some(args) = cmd.strip_prefix("cargo run --release -- ") {
-            let args: Vec<&str> = args.split_whitespace().collect();
+            let mut args: Vec<String> = args.split_whitespace().map(String::from).collect();
+            // Commands that write files write into a temporary folder instead.
+            let dir = tempfile::tempdir().unwrap();
+            if let Some(k) = args.iter().position(|a| a == "--out") {
+                args[k + 1] = dir.path().join("out").display().to_string();
+            }
             let out = portwright().args(&args).output().unwrap();
             assert!(out.status.success(), "README command `{cmd}` failed:\n{}", String::from_utf8_lossy(&out.stderr));
             ran += 1;
@@ -125,4 +130,27 @@ fn allocate_meets_a_command_inside_the_envelope_and_saturates_outside() {
     let out = portwright().args(["allocate", "layouts/heron-54.toml", "--torque", "1 kg,0,0"]).output().unwrap();
     assert!(!out.status.success());
     assert!(String::from_utf8_lossy(&out.stderr).contains("--torque"));
+}
+
+#[test]
+fn table_writes_each_format_and_optimize_improves_the_demo() {
+    let dir = tempfile::tempdir().unwrap();
+    for (format, needle) in [("c", "#ifndef"), ("csv", "[onoff]"), ("json", "\"regions\"")] {
+        let out = dir.path().join(format!("t.{format}"));
+        run_ok(&["table", "layouts/heron-54.toml", "--format", format, "--out", out.to_str().unwrap(), "--state", "burnout"]);
+        let text = std::fs::read_to_string(&out).unwrap();
+        assert!(text.contains(needle), "{format}: {needle} missing");
+        assert!(text.contains("burnout"), "{format}: flight state not named");
+    }
+    let new = dir.path().join("better.toml");
+    let a = run_ok(&["optimize", "layouts/heron-54.toml", "--out", new.to_str().unwrap(), "--seed", "7", "--json"]);
+    let b = run_ok(&["optimize", "layouts/heron-54.toml", "--out", new.to_str().unwrap(), "--seed", "7", "--json"]);
+    let va: serde_json::Value = serde_json::from_str(&a).unwrap();
+    let vb: serde_json::Value = serde_json::from_str(&b).unwrap();
+    assert_eq!(va["after"], vb["after"], "same seed, same answer");
+    assert!(va["worst_margin_after"].as_f64().unwrap() >= va["worst_margin_before"].as_f64().unwrap());
+    // The written layout keeps the user's comments and reads back.
+    let text = std::fs::read_to_string(&new).unwrap();
+    assert!(text.contains("# Copy this file and change the numbers"));
+    run_ok(&["analyze", new.to_str().unwrap()]);
 }

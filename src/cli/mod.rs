@@ -20,6 +20,14 @@ pub struct Cli {
 /// The commands.
 #[derive(Debug, Subcommand)]
 pub enum Command {
+    /// The whole job: analysis, firmware tables, STL, drilling template, plots and an HTML report.
+    Run {
+        /// Layout file (TOML).
+        layout: PathBuf,
+        /// Folder to write into.
+        #[arg(long)]
+        out: PathBuf,
+    },
     /// Mass properties, gas budget, per-port thrust, torques, authority and findings.
     Analyze {
         /// Layout file (TOML).

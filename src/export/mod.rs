@@ -16,6 +16,7 @@
 //!   progress as SVG (and PNG), from plain numbers.
 //! - [`html`]: one self-contained HTML report with inline CSS and inline SVG plots.
 
+pub mod bundle;
 pub mod firmware;
 pub mod html;
 pub mod mesh;

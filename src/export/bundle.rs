@@ -1,0 +1,283 @@
+//! Every file of the whole job for one layout, as named byte buffers: the
+//! analysis (text and JSON), firmware tables, STL files, the drilling template,
+//! plots (SVG and PNG) and one self-contained HTML report.
+//!
+//! The caller writes them; nothing here touches the disk. Output is
+//! deterministic, so the committed `exports/` folder can be checked as golden files.
+
+use super::firmware::{build_tables, render_c_header, render_csv, render_json, TableNames};
+use super::html::{render_html, Block, Figure, HtmlReport, Section, Table};
+use super::plots::{
+    authority_bars_svg, gas_remaining_svg, port_thrust_svg, torque_envelope_svg, AuthorityBars, EnvelopeSlice, GasRemaining, NamedPlot, Plane, Plot,
+    PlotSettings, PortThrust, StateAuthority,
+};
+use super::stl::{airframe_stl, drill_axes_stl, exhaust_markers_stl, MarkerSettings, MeshSettings};
+use super::template::{drill_template_svg, TemplateSettings};
+use crate::allocation::onoff::OnOffOptions;
+use crate::allocation::Tolerances;
+use crate::analysis::score::ray_limit;
+use crate::analysis::{effectiveness, Analysis, StateReport};
+use crate::model::Design;
+use nalgebra::Vector3;
+
+/// One output file.
+#[derive(Debug, Clone)]
+pub struct OutputFile {
+    /// File name inside the output folder.
+    pub name: String,
+    /// Contents.
+    pub bytes: Vec<u8>,
+}
+
+/// Directions used to trace each envelope slice (every 2°).
+const SLICE_DIRECTIONS: usize = 180;
+
+/// The outline of the torque envelope cut by a plane through the origin: along
+/// each direction in the plane, the exact ray limit of the zonotope.
+pub fn envelope_slice(design: &Design, state: &StateReport, plane: Plane) -> Vec<(f64, f64)> {
+    let radius = design.airframe.outer_radius_m();
+    let cg = state.mass.cg();
+    let columns: Vec<Vector3<f64>> = design
+        .ports
+        .iter()
+        .zip(&state.ports)
+        .map(|(p, r)| (p.position(radius) - cg).cross(&(p.thrust_direction() * r.thrust_n)))
+        .collect();
+    let (a, b) = plane.axes();
+    (0..SLICE_DIRECTIONS)
+        .map(|k| {
+            let th = std::f64::consts::TAU * k as f64 / SLICE_DIRECTIONS as f64;
+            let mut d = Vector3::zeros();
+            d[a] = th.cos();
+            d[b] = th.sin();
+            let t = ray_limit(&columns, &d);
+            (t * th.cos(), t * th.sin())
+        })
+        .collect()
+}
+
+/// All plots for the report.
+pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, String> {
+    let s = PlotSettings::default();
+    // Roll torque is usually far smaller than pitch torque: give each axis its own
+    // scale so the slice is readable (the axis labels carry the numbers).
+    let slice_settings = PlotSettings {
+        envelope_equal_scale: false,
+        ..PlotSettings::default()
+    };
+    let mut out = Vec::new();
+    let e = |e: super::plots::PlotError| e.to_string();
+    for st in &analysis.states {
+        for plane in Plane::ALL {
+            let (a, b) = plane.axes();
+            let req = st.required.total_n_m();
+            let dist = st.required.from_disturbance_n_m;
+            let slice = EnvelopeSlice {
+                layout: design.name.clone(),
+                state: st.name.clone(),
+                plane,
+                outline_n_m: envelope_slice(design, st, plane),
+                required_n_m: (req[a], req[b]),
+                disturbances_n_m: vec![(dist[a], dist[b])],
+            };
+            out.push(NamedPlot {
+                name: format!("envelope-{}-{}", st.name, plane.slug()),
+                caption: format!("Torque envelope at {} in the {} plane, with the required torques", st.name, plane.label()),
+                plot: torque_envelope_svg(&slice, &slice_settings).map_err(e)?,
+            });
+        }
+    }
+    let bars = AuthorityBars {
+        layout: design.name.clone(),
+        states: analysis
+            .states
+            .iter()
+            .map(|st| {
+                let i = st.mass.inertia_diagonal();
+                let req = st.required.total_n_m();
+                StateAuthority {
+                    state: st.name.clone(),
+                    achieved_deg_s2: [0, 1, 2].map(|k| st.authority[k].angular_accel_rad_s2.to_degrees()),
+                    required_deg_s2: [0, 1, 2].map(|k| (req[k] / i[k]).to_degrees()),
+                }
+            })
+            .collect(),
+    };
+    out.push(NamedPlot {
+        name: "authority".to_string(),
+        caption: "Angular acceleration authority per axis and flight state, with the requirement".to_string(),
+        plot: authority_bars_svg(&bars, &s).map_err(e)?,
+    });
+    if let Some(first) = analysis.states.first() {
+        let thrust = PortThrust {
+            layout: design.name.clone(),
+            state: first.name.clone(),
+            ports: first.ports.iter().map(|p| (p.name.clone(), p.thrust_n)).collect(),
+        };
+        out.push(NamedPlot {
+            name: "thrust".to_string(),
+            caption: format!("Thrust of each port fired alone at {}", first.name),
+            plot: port_thrust_svg(&thrust, &s).map_err(e)?,
+        });
+    }
+    let g = &analysis.gas;
+    let line = |usable: f64, seconds: f64| vec![(0.0, g.inventory_kg), (seconds, g.inventory_kg - usable)];
+    let gas = GasRemaining {
+        layout: design.name.clone(),
+        firing: "all ports open together".to_string(),
+        isothermal_kg: line(g.usable_isothermal_kg, g.firing_time_all_ports_s),
+        adiabatic_kg: line(g.usable_adiabatic_kg, g.firing_time_all_ports_adiabatic_s),
+    };
+    out.push(NamedPlot {
+        name: "gas".to_string(),
+        caption: "Gas in the tank against firing time with every port open (isothermal and adiabatic bounds)".to_string(),
+        plot: gas_remaining_svg(&gas, &s).map_err(e)?,
+    });
+    Ok(out)
+}
+
+fn figure(p: &Plot, caption: &str) -> Block {
+    Block::Figure(Figure {
+        caption: caption.to_string(),
+        svg: p.svg.clone(),
+    })
+}
+
+/// The HTML report.
+pub fn html_report(design: &Design, analysis: &Analysis, plots: &[NamedPlot]) -> Result<String, String> {
+    let mut sections = Vec::new();
+    let g = &analysis.gas;
+    sections.push(Section {
+        heading: "Gas".to_string(),
+        blocks: vec![Block::Table(Table {
+            caption: format!("{} tank, {:.0} mL", g.gas, g.tank_volume_m3 * 1e6),
+            headers: vec!["quantity".into(), "value".into()],
+            rows: vec![
+                vec!["inventory at fill".into(), format!("{:.1} g ({})", g.inventory_kg * 1e3, g.phase)],
+                vec!["tank pressure at fill".into(), format!("{:.1} bar", g.supply_pressure_pa / 1e5)],
+                vec!["usable, isothermal".into(), format!("{:.1} g", g.usable_isothermal_kg * 1e3)],
+                vec!["usable, adiabatic".into(), format!("{:.1} g", g.usable_adiabatic_kg * 1e3)],
+                vec!["total impulse".into(), format!("{:.1} to {:.1} N s", g.total_impulse_adiabatic_n_s, g.total_impulse_isothermal_n_s)],
+            ],
+        })],
+    });
+    for st in &analysis.states {
+        let mut blocks = vec![
+            Block::Paragraph(format!(
+                "{:.0} m altitude, ambient {:.1} kPa; mass {:.1} g, CG at station {:.1} mm, Ixx {:.5} kg m², Iyy {:.4} kg m².",
+                st.altitude_m,
+                st.ambient_pressure_pa / 1e3,
+                st.mass.mass_kg * 1e3,
+                st.mass.cg_station_m * 1e3,
+                st.mass.ixx_kg_m2,
+                st.mass.iyy_kg_m2
+            )),
+            Block::Table(Table {
+                caption: "ports fired alone".to_string(),
+                headers: ["port", "thrust (N)", "flow (g/s)", "Isp (s)", "roll / pitch / yaw torque (mN m)"].map(String::from).to_vec(),
+                rows: st
+                    .ports
+                    .iter()
+                    .map(|p| {
+                        vec![
+                            p.name.clone(),
+                            format!("{:.3}", p.thrust_n),
+                            format!("{:.3}", p.mass_flow_kg_s * 1e3),
+                            format!("{:.1}", p.specific_impulse_s),
+                            format!("{:+.1} / {:+.1} / {:+.1}", p.torque_n_m[0] * 1e3, p.torque_n_m[1] * 1e3, p.torque_n_m[2] * 1e3),
+                        ]
+                    })
+                    .collect(),
+            }),
+            Block::Table(Table {
+                caption: "authority from the exact envelope".to_string(),
+                headers: ["axis", "+ (mN m)", "− (mN m)", "deg/s²", "required (mN m)", "margin"].map(String::from).to_vec(),
+                rows: st
+                    .authority
+                    .iter()
+                    .map(|a| {
+                        vec![
+                            a.axis.to_string(),
+                            format!("{:.1}", a.positive_n_m * 1e3),
+                            format!("{:.1}", a.negative_n_m * 1e3),
+                            format!("{:.0}", a.angular_accel_rad_s2.to_degrees()),
+                            format!("{:.2}", a.required_n_m * 1e3),
+                            format!("{:.2}", a.margin),
+                        ]
+                    })
+                    .collect(),
+            }),
+        ];
+        for p in plots.iter().filter(|p| p.name.starts_with(&format!("envelope-{}-", st.name))) {
+            blocks.push(figure(&p.plot, &p.caption));
+        }
+        sections.push(Section {
+            heading: format!("Flight state: {}", st.name),
+            blocks,
+        });
+    }
+    let mut overview = Vec::new();
+    for p in plots.iter().filter(|p| !p.name.starts_with("envelope-")) {
+        overview.push(figure(&p.plot, &p.caption));
+    }
+    sections.push(Section {
+        heading: "Authority, thrust and gas".to_string(),
+        blocks: overview,
+    });
+    sections.push(Section {
+        heading: "Findings".to_string(),
+        blocks: vec![Block::List(analysis.findings.clone())],
+    });
+    sections.push(Section {
+        heading: "Assumptions".to_string(),
+        blocks: vec![Block::List(analysis.assumptions.clone())],
+    });
+    render_html(&HtmlReport {
+        title: format!("portwright report: {}", design.name),
+        summary: vec!["Body axes: +x toward the nose, +y through the reference line (clock 0°), +z = x × y; stations aft of the nose tip; torques about each state's CG.".to_string()],
+        cautions: analysis.cautions.iter().map(|c| c.to_string()).collect(),
+        sections,
+    })
+    .map_err(|e| e.to_string())
+}
+
+/// Every output file for the layout.
+pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, String> {
+    let mut files = Vec::new();
+    let mut push = |name: &str, bytes: Vec<u8>| files.push(OutputFile { name: name.to_string(), bytes });
+    push("analysis.txt", crate::report::render_text(analysis).into_bytes());
+    push("analysis.json", (serde_json::to_string_pretty(analysis).map_err(|e| e.to_string())? + "\n").into_bytes());
+    if let Some(st) = analysis.states.first() {
+        let e = effectiveness(design, &st.mass, &st.ports)?;
+        let droop: Vec<f64> = st.droop.iter().map(|d| 1.0 - d.thrust_drop_fraction).collect();
+        let factor = move |k: usize| if k == 0 { 1.0 } else { droop.get(k - 1).copied().unwrap_or(1.0) };
+        let options = OnOffOptions {
+            coil_current_a: design.feed.valve.coil_current_a,
+            ..OnOffOptions::default()
+        };
+        let names = TableNames {
+            layout: design.name.clone(),
+            flight_state: st.name.clone(),
+        };
+        let t = build_tables(&e, &names, &options, &factor, &Tolerances::default(), None).map_err(|e| e.to_string())?;
+        push("allocation.h", render_c_header(&t).map_err(|e| e.to_string())?.into_bytes());
+        push("allocation.csv", render_csv(&t).into_bytes());
+        push("allocation.json", render_json(&t).map_err(|e| e.to_string())?.into_bytes());
+    }
+    let mesh = MeshSettings::default();
+    push("airframe.stl", airframe_stl(design, &mesh).map_err(|e| e.to_string())?);
+    push("drill-axes.stl", drill_axes_stl(design, &mesh).map_err(|e| e.to_string())?);
+    let thrusts: Vec<f64> = analysis.states.first().map(|s| s.ports.iter().map(|p| p.thrust_n).collect()).unwrap_or_default();
+    push("exhaust-markers.stl", exhaust_markers_stl(design, &thrusts, &MarkerSettings::default(), &mesh).map_err(|e| e.to_string())?);
+    let pages = drill_template_svg(design, &TemplateSettings::default()).map_err(|e| e.to_string())?;
+    for (k, page) in pages.into_iter().enumerate() {
+        push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
+    }
+    let plots = plots(design, analysis)?;
+    for p in &plots {
+        push(&format!("{}.svg", p.name), p.plot.svg.clone().into_bytes());
+        push(&format!("{}.png", p.name), p.plot.to_png(1.0).map_err(|e| e.to_string())?);
+    }
+    push("report.html", html_report(design, analysis, &plots)?.into_bytes());
+    Ok(files)
+}

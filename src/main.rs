@@ -35,8 +35,19 @@ fn run(cli: Cli) -> Result<()> {
             json,
         } => {
             let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
-            print!("{}", cli::allocate::run(&design, &analysis, &torque, state.as_deref(), side_force.as_deref(), json)?);
+            let analysis = portwright::analysis::analyze(&design)
+                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            print!(
+                "{}",
+                cli::allocate::run(
+                    &design,
+                    &analysis,
+                    &torque,
+                    state.as_deref(),
+                    side_force.as_deref(),
+                    json
+                )?
+            );
             Ok(())
         }
         Command::Table {
@@ -49,8 +60,17 @@ fn run(cli: Cli) -> Result<()> {
             tolerance,
         } => {
             let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
-            let text = cli::table::render(&design, &analysis, state.as_deref(), format, grid, fraction, tolerance)?;
+            let analysis = portwright::analysis::analyze(&design)
+                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let text = cli::table::render(
+                &design,
+                &analysis,
+                state.as_deref(),
+                format,
+                grid,
+                fraction,
+                tolerance,
+            )?;
             write_atomic(&out, text.as_bytes(), &[&layout], false)?;
             eprintln!("wrote {}", out.display());
             Ok(())
@@ -65,13 +85,26 @@ fn run(cli: Cli) -> Result<()> {
             plot,
             json,
         } => {
-            let text = std::fs::read_to_string(&layout).with_context(|| format!("{}: cannot read the layout", layout.display()))?;
+            let text = std::fs::read_to_string(&layout)
+                .with_context(|| format!("{}: cannot read the layout", layout.display()))?;
             let stop = Arc::new(AtomicBool::new(false));
             let flag = stop.clone();
             // Ctrl-C asks the search to stop; the best layout so far is still written.
             let _ = ctrlc::set_handler(move || flag.store(true, Ordering::SeqCst));
-            let result = cli::optimize::run(&text, &layout.display().to_string(), seed, max_evals, time_limit, json, &stop)?;
-            let target = if in_place { layout.clone() } else { out.clone().context("--out is required")? };
+            let result = cli::optimize::run(
+                &text,
+                &layout.display().to_string(),
+                seed,
+                max_evals,
+                time_limit,
+                json,
+                &stop,
+            )?;
+            let target = if in_place {
+                layout.clone()
+            } else {
+                out.clone().context("--out is required")?
+            };
             write_atomic(&target, result.layout_text.as_bytes(), &[&layout], in_place)?;
             if let (Some(p), Some(svg)) = (plot, result.plot_svg) {
                 write_atomic(&p, svg.as_bytes(), &[&layout], false)?;
@@ -84,9 +117,11 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("reading {}", layout.display());
             let design = layout::load(&layout)?;
             eprintln!("analysing: mass properties, gas, port flows, envelopes");
-            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let analysis = portwright::analysis::analyze(&design)
+                .with_context(|| format!("{}: analysis failed", layout.display()))?;
             eprintln!("building tables, meshes, template, plots and the report");
-            let files = portwright::export::bundle::bundle(&design, &analysis).map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+            let files = portwright::export::bundle::bundle(&design, &analysis)
+                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
             print!("{}", portwright::report::render_text(&analysis));
             println!();
             for f in &files {
@@ -98,7 +133,8 @@ fn run(cli: Cli) -> Result<()> {
         }
         Command::Analyze { layout, json, out } => {
             let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design).with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let analysis = portwright::analysis::analyze(&design)
+                .with_context(|| format!("{}: analysis failed", layout.display()))?;
             let text = if json {
                 serde_json::to_string_pretty(&analysis)? + "\n"
             } else {

@@ -12,12 +12,16 @@ const PSI_PA: f64 = 6_894.757_293;
 fn table(headers: &[&str]) -> Table {
     let mut t = Table::new();
     t.load_preset(UTF8_FULL_CONDENSED);
-    t.set_header(headers.iter().map(|h| Cell::new(h)));
+    t.set_header(headers.iter().copied().map(Cell::new));
     t
 }
 
 fn num(v: f64, decimals: usize) -> Cell {
-    let text = if v.is_finite() { format!("{v:.decimals$}") } else { "—".to_string() };
+    let text = if v.is_finite() {
+        format!("{v:.decimals$}")
+    } else {
+        "—".to_string()
+    };
     Cell::new(text).set_alignment(CellAlignment::Right)
 }
 
@@ -46,26 +50,93 @@ pub fn render_text(a: &Analysis) -> String {
     let g = &a.gas;
     let _ = writeln!(s, "Gas ({})", g.gas);
     let mut t = table(&["quantity", "value"]);
-    t.add_row(vec![Cell::new("tank volume"), Cell::new(format!("{:.1} mL", g.tank_volume_m3 * 1e6))]);
-    t.add_row(vec![Cell::new("at fill"), Cell::new(format!("{} at {:.1} °C, {}", g.phase, g.fill_temperature_k - 273.15, bar_psi(g.supply_pressure_pa)))]);
+    t.add_row(vec![
+        Cell::new("tank volume"),
+        Cell::new(format!("{:.1} mL", g.tank_volume_m3 * 1e6)),
+    ]);
+    t.add_row(vec![
+        Cell::new("at fill"),
+        Cell::new(format!(
+            "{} at {:.1} °C, {}",
+            g.phase,
+            g.fill_temperature_k - 273.15,
+            bar_psi(g.supply_pressure_pa)
+        )),
+    ]);
     if g.liquid_mass_kg > 0.0 {
-        t.add_row(vec![Cell::new("liquid at fill"), Cell::new(format!("{:.1} g, {:.0} % of the volume", g.liquid_mass_kg * 1e3, g.liquid_volume_fraction * 100.0))]);
+        t.add_row(vec![
+            Cell::new("liquid at fill"),
+            Cell::new(format!(
+                "{:.1} g, {:.0} % of the volume",
+                g.liquid_mass_kg * 1e3,
+                g.liquid_volume_fraction * 100.0
+            )),
+        ]);
     }
-    t.add_row(vec![Cell::new("inventory"), Cell::new(format!("{:.1} g (± {:.1} g)", g.inventory_kg * 1e3, g.inventory_uncertainty_kg * 1e3))]);
-    t.add_row(vec![Cell::new("regulator stops at tank pressure"), Cell::new(bar_psi(g.end_pressure_pa))]);
-    t.add_row(vec![Cell::new("usable, isothermal blowdown"), Cell::new(format!("{:.1} g (± {:.1} %)", g.usable_isothermal_kg * 1e3, g.uncertainty_fraction * 100.0))]);
-    t.add_row(vec![Cell::new("usable, adiabatic blowdown"), Cell::new(format!("{:.1} g (tank ends at {:.1} °C)", g.usable_adiabatic_kg * 1e3, g.adiabatic_end_temperature_k - 273.15))]);
-    t.add_row(vec![Cell::new("total impulse of usable gas"), Cell::new(format!("{:.1} to {:.1} N s", g.total_impulse_adiabatic_n_s, g.total_impulse_isothermal_n_s))]);
-    t.add_row(vec![Cell::new("all ports open together"), Cell::new(format!("{:.1} to {:.1} s", g.firing_time_all_ports_adiabatic_s, g.firing_time_all_ports_s))]);
+    t.add_row(vec![
+        Cell::new("inventory"),
+        Cell::new(format!(
+            "{:.1} g (± {:.1} g)",
+            g.inventory_kg * 1e3,
+            g.inventory_uncertainty_kg * 1e3
+        )),
+    ]);
+    t.add_row(vec![
+        Cell::new("regulator stops at tank pressure"),
+        Cell::new(bar_psi(g.end_pressure_pa)),
+    ]);
+    t.add_row(vec![
+        Cell::new("usable, isothermal blowdown"),
+        Cell::new(format!(
+            "{:.1} g (± {:.1} %)",
+            g.usable_isothermal_kg * 1e3,
+            g.uncertainty_fraction * 100.0
+        )),
+    ]);
+    t.add_row(vec![
+        Cell::new("usable, adiabatic blowdown"),
+        Cell::new(format!(
+            "{:.1} g (tank ends at {:.1} °C)",
+            g.usable_adiabatic_kg * 1e3,
+            g.adiabatic_end_temperature_k - 273.15
+        )),
+    ]);
+    t.add_row(vec![
+        Cell::new("total impulse of usable gas"),
+        Cell::new(format!(
+            "{:.1} to {:.1} N s",
+            g.total_impulse_adiabatic_n_s, g.total_impulse_isothermal_n_s
+        )),
+    ]);
+    t.add_row(vec![
+        Cell::new("all ports open together"),
+        Cell::new(format!(
+            "{:.1} to {:.1} s",
+            g.firing_time_all_ports_adiabatic_s, g.firing_time_all_ports_s
+        )),
+    ]);
     let _ = writeln!(s, "{t}");
     let mut t = table(&["port", "full-on time (s)", "minimum impulse bit (mN s)"]);
     for p in &g.per_port {
-        t.add_row(vec![Cell::new(&p.name), num(p.firing_time_s, 1), num(p.minimum_impulse_bit_n_s * 1e3, 3)]);
+        t.add_row(vec![
+            Cell::new(&p.name),
+            num(p.firing_time_s, 1),
+            num(p.minimum_impulse_bit_n_s * 1e3, 3),
+        ]);
     }
     let _ = writeln!(s, "{t}\n");
 
     let _ = writeln!(s, "Mass properties");
-    let mut t = table(&["state", "mass (g)", "CG station (mm)", "Ixx (kg m²)", "Iyy (kg m²)", "Izz (kg m²)", "gas (g)", ""]);
+    let mut t = table(&[
+        "state",
+        "mass (g)",
+        "CG station (mm)",
+        "Ixx (kg m²)",
+        "Iyy (kg m²)",
+        "Izz (kg m²)",
+        "gas (g)",
+        "",
+    ]);
     for st in &a.states {
         let m = &st.mass;
         t.add_row(vec![
@@ -76,7 +147,11 @@ pub fn render_text(a: &Analysis) -> String {
             num(m.iyy_kg_m2, 4),
             num(m.izz_kg_m2, 4),
             num(st.gas_in_tank_kg * 1e3, 1),
-            Cell::new(if m.overridden { "measured values used" } else { "" }),
+            Cell::new(if m.overridden {
+                "measured values used"
+            } else {
+                ""
+            }),
         ]);
     }
     let _ = writeln!(s, "{t}\n");
@@ -91,20 +166,43 @@ pub fn render_text(a: &Analysis) -> String {
             bar_psi(st.regulated_pressure_pa),
             st.motor
         );
-        let mut t = table(&["port", "thrust (N)", "flow (g/s)", "Isp (s)", "Fx Fy Fz (N)", "roll pitch yaw torque (mN m)", "nozzle"]);
+        let mut t = table(&[
+            "port",
+            "thrust (N)",
+            "flow (g/s)",
+            "Isp (s)",
+            "Fx Fy Fz (N)",
+            "roll pitch yaw torque (mN m)",
+            "nozzle",
+        ]);
         for p in &st.ports {
             t.add_row(vec![
                 Cell::new(&p.name),
                 num(p.thrust_n, 3),
                 num(p.mass_flow_kg_s * 1e3, 3),
                 num(p.specific_impulse_s, 1),
-                Cell::new(format!("{:+.2} {:+.2} {:+.2}", p.force_n[0], p.force_n[1], p.force_n[2])),
-                Cell::new(format!("{:+.1} {:+.1} {:+.1}", p.torque_n_m[0] * 1e3, p.torque_n_m[1] * 1e3, p.torque_n_m[2] * 1e3)),
+                Cell::new(format!(
+                    "{:+.2} {:+.2} {:+.2}",
+                    p.force_n[0], p.force_n[1], p.force_n[2]
+                )),
+                Cell::new(format!(
+                    "{:+.1} {:+.1} {:+.1}",
+                    p.torque_n_m[0] * 1e3,
+                    p.torque_n_m[1] * 1e3,
+                    p.torque_n_m[2] * 1e3
+                )),
                 Cell::new(&p.nozzle_regime),
             ]);
         }
         let _ = writeln!(s, "{t}");
-        let mut t = table(&["axis", "+ torque (mN m)", "− torque (mN m)", "accel (deg/s²)", "required (mN m)", "margin"]);
+        let mut t = table(&[
+            "axis",
+            "+ torque (mN m)",
+            "− torque (mN m)",
+            "accel (deg/s²)",
+            "required (mN m)",
+            "margin",
+        ]);
         for ax in &st.authority {
             t.add_row(vec![
                 Cell::new(ax.axis),
@@ -126,14 +224,33 @@ pub fn render_text(a: &Analysis) -> String {
             env.guaranteed_torque_n_m * 1e3,
             env.guaranteed_accel_rad_s2.to_degrees()
         );
-        let _ = writeln!(s, "roll-to-pitch authority ratio {:.2}", st.roll_to_pitch_ratio);
+        let _ = writeln!(
+            s,
+            "roll-to-pitch authority ratio {:.2}",
+            st.roll_to_pitch_ratio
+        );
         let droop: Vec<String> = st
             .droop
             .iter()
-            .map(|d| format!("{}: {:.3} N (−{:.1} %)", d.open_ports, d.thrust_per_port_n, d.thrust_drop_fraction * 100.0))
+            .map(|d| {
+                format!(
+                    "{}: {:.3} N (−{:.1} %)",
+                    d.open_ports,
+                    d.thrust_per_port_n,
+                    d.thrust_drop_fraction * 100.0
+                )
+            })
             .collect();
-        let _ = writeln!(s, "thrust per port with k valves open: {}", droop.join(", "));
-        let _ = writeln!(s, "valves that can fire together within 5 % thrust droop: {}\n", st.ports_within_5_percent);
+        let _ = writeln!(
+            s,
+            "thrust per port with k valves open: {}",
+            droop.join(", ")
+        );
+        let _ = writeln!(
+            s,
+            "valves that can fire together within 5 % thrust droop: {}\n",
+            st.ports_within_5_percent
+        );
     }
 
     let _ = writeln!(s, "Findings");

@@ -9,7 +9,11 @@ fn portwright() -> Command {
 
 fn run_ok(args: &[&str]) -> String {
     let out = portwright().args(args).output().expect("binary runs");
-    assert!(out.status.success(), "portwright {args:?} failed:\n{}", String::from_utf8_lossy(&out.stderr));
+    assert!(
+        out.status.success(),
+        "portwright {args:?} failed:\n{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     String::from_utf8(out.stdout).expect("utf-8 output")
 }
 
@@ -17,8 +21,18 @@ fn run_ok(args: &[&str]) -> String {
 fn analyze_prints_the_report_for_both_demos() {
     for layout in ["layouts/heron-54.toml", "layouts/osprey-98.toml"] {
         let text = run_ok(&["analyze", layout]);
-        for heading in ["Safety", "Gas (", "Mass properties", "State `liftoff`", "State `burnout`", "Findings"] {
-            assert!(text.contains(heading), "{layout}: report lacks `{heading}`:\n{text}");
+        for heading in [
+            "Safety",
+            "Gas (",
+            "Mass properties",
+            "State `liftoff`",
+            "State `burnout`",
+            "Findings",
+        ] {
+            assert!(
+                text.contains(heading),
+                "{layout}: report lacks `{heading}`:\n{text}"
+            );
         }
         assert!(text.contains("eye protection"), "cautions missing");
     }
@@ -33,20 +47,40 @@ fn analyze_json_holds_the_documented_fields() {
         assert!(states.len() >= 2);
         for s in states {
             for f in ["cg_station_m", "mass_kg", "ixx_kg_m2", "iyy_kg_m2"] {
-                assert!(s["mass"][f].as_f64().is_some_and(|x| x > 0.0), "{layout}: mass.{f}");
+                assert!(
+                    s["mass"][f].as_f64().is_some_and(|x| x > 0.0),
+                    "{layout}: mass.{f}"
+                );
             }
             for p in s["ports"].as_array().expect("ports") {
-                assert!(p["thrust_n"].as_f64().is_some_and(|x| x > 0.0), "{layout}: thrust_n");
-                assert!(p["mass_flow_kg_s"].as_f64().is_some_and(|x| x > 0.0), "{layout}: mass_flow_kg_s");
-                assert!(p["specific_impulse_s"].as_f64().is_some_and(|x| x > 20.0), "{layout}: Isp");
+                assert!(
+                    p["thrust_n"].as_f64().is_some_and(|x| x > 0.0),
+                    "{layout}: thrust_n"
+                );
+                assert!(
+                    p["mass_flow_kg_s"].as_f64().is_some_and(|x| x > 0.0),
+                    "{layout}: mass_flow_kg_s"
+                );
+                assert!(
+                    p["specific_impulse_s"].as_f64().is_some_and(|x| x > 20.0),
+                    "{layout}: Isp"
+                );
                 assert_eq!(p["torque_n_m"].as_array().map(|a| a.len()), Some(3));
             }
             assert_eq!(s["authority"].as_array().map(|a| a.len()), Some(3));
             assert!(s["roll_to_pitch_ratio"].as_f64().is_some());
         }
         let gas = &v["gas"];
-        for f in ["inventory_kg", "usable_isothermal_kg", "usable_adiabatic_kg", "total_impulse_isothermal_n_s"] {
-            assert!(gas[f].as_f64().is_some_and(|x| x > 0.0), "{layout}: gas.{f}");
+        for f in [
+            "inventory_kg",
+            "usable_isothermal_kg",
+            "usable_adiabatic_kg",
+            "total_impulse_isothermal_n_s",
+        ] {
+            assert!(
+                gas[f].as_f64().is_some_and(|x| x > 0.0),
+                "{layout}: gas.{f}"
+            );
         }
         // The adiabatic bound never exceeds the isothermal one.
         assert!(gas["usable_adiabatic_kg"].as_f64() <= gas["usable_isothermal_kg"].as_f64());
@@ -58,9 +92,18 @@ fn analyze_json_holds_the_documented_fields() {
 fn bad_layout_exits_nonzero_naming_file_line_and_field() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("broken.toml");
-    let text = std::fs::read_to_string("layouts/heron-54.toml").unwrap().replacen("outer_diameter = \"54 mm\"", "outer_diameter = \"54 kg\"", 1);
+    let text = std::fs::read_to_string("layouts/heron-54.toml")
+        .unwrap()
+        .replacen(
+            "outer_diameter = \"54 mm\"",
+            "outer_diameter = \"54 kg\"",
+            1,
+        );
     std::fs::write(&path, &text).unwrap();
-    let out = portwright().args(["analyze", path.to_str().unwrap()]).output().unwrap();
+    let out = portwright()
+        .args(["analyze", path.to_str().unwrap()])
+        .output()
+        .unwrap();
     assert!(!out.status.success());
     let err = String::from_utf8_lossy(&out.stderr);
     let line = text.lines().position(|l| l.contains("\"54 kg\"")).unwrap() + 1;
@@ -75,14 +118,35 @@ fn output_never_overwrites_the_input() {
     let path = dir.path().join("mine.toml");
     std::fs::copy("layouts/heron-54.toml", &path).unwrap();
     let before = std::fs::read(&path).unwrap();
-    let out = portwright().args(["analyze", path.to_str().unwrap(), "--out", path.to_str().unwrap()]).output().unwrap();
-    assert!(!out.status.success(), "writing over the input must be refused");
+    let out = portwright()
+        .args([
+            "analyze",
+            path.to_str().unwrap(),
+            "--out",
+            path.to_str().unwrap(),
+        ])
+        .output()
+        .unwrap();
+    assert!(
+        !out.status.success(),
+        "writing over the input must be refused"
+    );
     assert_eq!(std::fs::read(&path).unwrap(), before, "the input changed");
     // A separate output path is written whole.
     let report = dir.path().join("report.txt");
-    let out = portwright().args(["analyze", path.to_str().unwrap(), "--out", report.to_str().unwrap()]).output().unwrap();
+    let out = portwright()
+        .args([
+            "analyze",
+            path.to_str().unwrap(),
+            "--out",
+            report.to_str().unwrap(),
+        ])
+        .output()
+        .unwrap();
     assert!(out.status.success());
-    assert!(std::fs::read_to_string(&report).unwrap().contains("Findings"));
+    assert!(std::fs::read_to_string(&report)
+        .unwrap()
+        .contains("Findings"));
 }
 
 /// The README's quick-start and example commands run as written.
@@ -100,7 +164,11 @@ fn readme_commands_work() {
                 args[k + 1] = dir.path().join("out").display().to_string();
             }
             let out = portwright().args(&args).output().unwrap();
-            assert!(out.status.success(), "README command `{cmd}` failed:\n{}", String::from_utf8_lossy(&out.stderr));
+            assert!(
+                out.status.success(),
+                "README command `{cmd}` failed:\n{}",
+                String::from_utf8_lossy(&out.stderr)
+            );
             ran += 1;
         }
     }
@@ -110,9 +178,20 @@ fn readme_commands_work() {
 #[test]
 fn allocate_meets_a_command_inside_the_envelope_and_saturates_outside() {
     for layout in ["layouts/heron-54.toml", "layouts/osprey-98.toml"] {
-        let text = run_ok(&["allocate", layout, "--torque", "10 mN m,20 mN m,-5 mN m", "--json"]);
+        let text = run_ok(&[
+            "allocate",
+            layout,
+            "--torque",
+            "10 mN m,20 mN m,-5 mN m",
+            "--json",
+        ]);
         let v: serde_json::Value = serde_json::from_str(&text).unwrap();
-        let got: Vec<f64> = v["achieved_torque_n_m"].as_array().unwrap().iter().map(|x| x.as_f64().unwrap()).collect();
+        let got: Vec<f64> = v["achieved_torque_n_m"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|x| x.as_f64().unwrap())
+            .collect();
         // The allocator's equality rows hold to its primal tolerance (1e-9 relative): 1e-9 N m is ample.
         for (g, want) in got.iter().zip([0.010, 0.020, -0.005]) {
             assert!((g - want).abs() < 1e-9, "{layout}: {got:?}");
@@ -122,12 +201,23 @@ fn allocate_meets_a_command_inside_the_envelope_and_saturates_outside() {
             let u = d["duty"].as_f64().unwrap();
             assert!((0.0..=1.0).contains(&u));
         }
-        let text = run_ok(&["allocate", layout, "--torque", "50 N m,0,0", "--state", "burnout", "--json"]);
+        let text = run_ok(&[
+            "allocate",
+            layout,
+            "--torque",
+            "50 N m,0,0",
+            "--state",
+            "burnout",
+            "--json",
+        ]);
         let v: serde_json::Value = serde_json::from_str(&text).unwrap();
         assert_eq!(v["saturated"], true);
         assert!(v["scale"].as_f64().unwrap() < 1.0);
     }
-    let out = portwright().args(["allocate", "layouts/heron-54.toml", "--torque", "1 kg,0,0"]).output().unwrap();
+    let out = portwright()
+        .args(["allocate", "layouts/heron-54.toml", "--torque", "1 kg,0,0"])
+        .output()
+        .unwrap();
     assert!(!out.status.success());
     assert!(String::from_utf8_lossy(&out.stderr).contains("--torque"));
 }
@@ -135,20 +225,51 @@ fn allocate_meets_a_command_inside_the_envelope_and_saturates_outside() {
 #[test]
 fn table_writes_each_format_and_optimize_improves_the_demo() {
     let dir = tempfile::tempdir().unwrap();
-    for (format, needle) in [("c", "#ifndef"), ("csv", "[onoff]"), ("json", "\"regions\"")] {
+    for (format, needle) in [
+        ("c", "#ifndef"),
+        ("csv", "[onoff]"),
+        ("json", "\"regions\""),
+    ] {
         let out = dir.path().join(format!("t.{format}"));
-        run_ok(&["table", "layouts/heron-54.toml", "--format", format, "--out", out.to_str().unwrap(), "--state", "burnout"]);
+        run_ok(&[
+            "table",
+            "layouts/heron-54.toml",
+            "--format",
+            format,
+            "--out",
+            out.to_str().unwrap(),
+            "--state",
+            "burnout",
+        ]);
         let text = std::fs::read_to_string(&out).unwrap();
         assert!(text.contains(needle), "{format}: {needle} missing");
         assert!(text.contains("burnout"), "{format}: flight state not named");
     }
     let new = dir.path().join("better.toml");
-    let a = run_ok(&["optimize", "layouts/heron-54.toml", "--out", new.to_str().unwrap(), "--seed", "7", "--json"]);
-    let b = run_ok(&["optimize", "layouts/heron-54.toml", "--out", new.to_str().unwrap(), "--seed", "7", "--json"]);
+    let a = run_ok(&[
+        "optimize",
+        "layouts/heron-54.toml",
+        "--out",
+        new.to_str().unwrap(),
+        "--seed",
+        "7",
+        "--json",
+    ]);
+    let b = run_ok(&[
+        "optimize",
+        "layouts/heron-54.toml",
+        "--out",
+        new.to_str().unwrap(),
+        "--seed",
+        "7",
+        "--json",
+    ]);
     let va: serde_json::Value = serde_json::from_str(&a).unwrap();
     let vb: serde_json::Value = serde_json::from_str(&b).unwrap();
     assert_eq!(va["after"], vb["after"], "same seed, same answer");
-    assert!(va["worst_margin_after"].as_f64().unwrap() >= va["worst_margin_before"].as_f64().unwrap());
+    assert!(
+        va["worst_margin_after"].as_f64().unwrap() >= va["worst_margin_before"].as_f64().unwrap()
+    );
     // The written layout keeps the user's comments and reads back.
     let text = std::fs::read_to_string(&new).unwrap();
     assert!(text.contains("# Copy this file and change the numbers"));

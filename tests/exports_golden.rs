@@ -20,12 +20,25 @@ fn committed_exports_are_current() {
     for demo in ["heron-54", "osprey-98"] {
         let dir = tempfile::tempdir().unwrap();
         let out = Command::new(env!("CARGO_BIN_EXE_portwright"))
-            .args(["run", &format!("layouts/{demo}.toml"), "--out", dir.path().to_str().unwrap()])
+            .args([
+                "run",
+                &format!("layouts/{demo}.toml"),
+                "--out",
+                dir.path().to_str().unwrap(),
+            ])
             .output()
             .unwrap();
-        assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
         let committed = Path::new("exports").join(demo);
-        assert_eq!(names(dir.path()), names(&committed), "{demo}: the set of files differs");
+        assert_eq!(
+            names(dir.path()),
+            names(&committed),
+            "{demo}: the set of files differs"
+        );
         for name in names(&committed) {
             let want = std::fs::read(committed.join(&name)).unwrap();
             let got = std::fs::read(dir.path().join(&name)).unwrap();
@@ -35,7 +48,11 @@ fn committed_exports_are_current() {
                 } else {
                     let w = String::from_utf8_lossy(&want);
                     let g = String::from_utf8_lossy(&got);
-                    let line = w.lines().zip(g.lines()).position(|(a, b)| a != b).unwrap_or(0);
+                    let line = w
+                        .lines()
+                        .zip(g.lines())
+                        .position(|(a, b)| a != b)
+                        .unwrap_or(0);
                     format!(
                         "\nfirst difference at line {}:\n  committed: {}\n  now:       {}",
                         line + 1,
@@ -58,7 +75,8 @@ fn exported_stl_files_read_back_closed() {
         for name in ["airframe.stl", "drill-axes.stl", "exhaust-markers.stl"] {
             let bytes = std::fs::read(Path::new("exports").join(demo).join(name)).unwrap();
             let mesh = stl_to_mesh(&bytes).unwrap_or_else(|e| panic!("{demo}/{name}: {e}"));
-            mesh.check(&MeshTolerances::default()).unwrap_or_else(|e| panic!("{demo}/{name}: {e:?}"));
+            mesh.check(&MeshTolerances::default())
+                .unwrap_or_else(|e| panic!("{demo}/{name}: {e:?}"));
         }
     }
 }

@@ -46,7 +46,12 @@ pub struct AxisAuthority {
 }
 
 /// Build per-axis authority from the available torques (weaker sense counts).
-pub fn axis_authority(positive: Vector3<f64>, negative: Vector3<f64>, inertia: Vector3<f64>, required: &Required) -> [AxisAuthority; 3] {
+pub fn axis_authority(
+    positive: Vector3<f64>,
+    negative: Vector3<f64>,
+    inertia: Vector3<f64>,
+    required: &Required,
+) -> [AxisAuthority; 3] {
     let total = required.total_n_m();
     [0, 1, 2].map(|k| {
         let weak = positive[k].min(negative[k]);
@@ -56,7 +61,11 @@ pub fn axis_authority(positive: Vector3<f64>, negative: Vector3<f64>, inertia: V
             negative_n_m: negative[k],
             angular_accel_rad_s2: weak / inertia[k],
             required_n_m: total[k],
-            margin: if total[k] > 0.0 { weak / total[k] } else { f64::INFINITY },
+            margin: if total[k] > 0.0 {
+                weak / total[k]
+            } else {
+                f64::INFINITY
+            },
         }
     })
 }
@@ -85,7 +94,12 @@ mod tests {
             from_acceleration_n_m: [0.1, 0.2, 0.0],
             from_disturbance_n_m: [0.1, 0.0, 0.0],
         };
-        let a = axis_authority(Vector3::new(1.0, 0.4, 0.3), Vector3::new(0.6, 0.5, 0.3), Vector3::new(0.01, 1.0, 1.0), &req);
+        let a = axis_authority(
+            Vector3::new(1.0, 0.4, 0.3),
+            Vector3::new(0.6, 0.5, 0.3),
+            Vector3::new(0.01, 1.0, 1.0),
+            &req,
+        );
         assert_eq!(a[0].margin, 0.6 / 0.2);
         assert_eq!(a[1].margin, 0.4 / 0.2);
         assert!(a[2].margin.is_infinite());

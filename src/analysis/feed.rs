@@ -145,7 +145,10 @@ pub fn port_chains(design: &Design) -> Result<Vec<PortChain>, FlowError> {
         ValveFlow::Orifice {
             diameter_m,
             discharge_coefficient,
-        } => Valve::Orifice(OrificeValve::from_diameter(diameter_m, discharge_coefficient)?),
+        } => Valve::Orifice(OrificeValve::from_diameter(
+            diameter_m,
+            discharge_coefficient,
+        )?),
     };
     design
         .ports
@@ -160,7 +163,11 @@ pub fn port_chains(design: &Design) -> Result<Vec<PortChain>, FlowError> {
                     throat_diameter_m,
                     exit_diameter_m,
                     discharge_coefficient,
-                } => Nozzle::converging_diverging(throat_diameter_m, exit_diameter_m, discharge_coefficient)?,
+                } => Nozzle::converging_diverging(
+                    throat_diameter_m,
+                    exit_diameter_m,
+                    discharge_coefficient,
+                )?,
             };
             Ok(PortChain { valve, nozzle })
         })
@@ -172,13 +179,22 @@ pub fn shared_supply(design: &Design, ambient_pa: f64) -> Result<SharedSupply, F
     let reg = &design.feed.regulator;
     let capacity = match reg.supply {
         crate::model::SupplyCapacity::Unlimited => SupplyCapacity::Unlimited,
-        crate::model::SupplyCapacity::Cv { cv, xt } => SupplyCapacity::Restriction(CvValve::new(cv, xt)?),
-        crate::model::SupplyCapacity::Droop { droop_pa, at_flow_kg_s } => SupplyCapacity::LinearDroop {
+        crate::model::SupplyCapacity::Cv { cv, xt } => {
+            SupplyCapacity::Restriction(CvValve::new(cv, xt)?)
+        }
+        crate::model::SupplyCapacity::Droop {
+            droop_pa,
+            at_flow_kg_s,
+        } => SupplyCapacity::LinearDroop {
             droop_pa,
             reference_flow_kg_s: at_flow_kg_s,
         },
     };
-    SharedSupply::new(reg.set_pressure_gauge_pa + ambient_pa, design.feed.tank.fill_temperature_k, capacity)
+    SharedSupply::new(
+        reg.set_pressure_gauge_pa + ambient_pa,
+        design.feed.tank.fill_temperature_k,
+        capacity,
+    )
 }
 
 /// Real-gas density for the flow models.
@@ -225,7 +241,9 @@ pub fn ports_at(design: &Design, state: &str, ambient_pa: f64) -> Result<PortsAt
     let mut ports = Vec::with_capacity(chains.len());
     let mut regulated = supply.set_pressure_pa();
     for (p, chain) in design.ports.iter().zip(&chains) {
-        let m = supply.solve(std::slice::from_ref(chain), &ctx).map_err(|e| flow_err(&p.name, e))?;
+        let m = supply
+            .solve(std::slice::from_ref(chain), &ctx)
+            .map_err(|e| flow_err(&p.name, e))?;
         let s = m.ports[0];
         regulated = regulated.min(m.manifold_pressure_pa);
         ports.push(PortReport {
@@ -261,7 +279,9 @@ pub fn ports_at(design: &Design, state: &str, ambient_pa: f64) -> Result<PortsAt
             thrust_drop_fraction: r.thrust_drop_fraction,
         })
         .collect();
-    let all = supply.solve(&chains, &ctx).map_err(|e| flow_err("(all open)", e))?;
+    let all = supply
+        .solve(&chains, &ctx)
+        .map_err(|e| flow_err("(all open)", e))?;
     Ok(PortsAt {
         ports,
         regulated_pressure_pa: regulated,
@@ -288,11 +308,18 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         .map_err(gas_error)?
         .pressure_pa;
     let fill = match t.fill {
-        FillSpec::Pressure { pressure_pa } => tank::TankFill::by_pressure(feed.gas, t.volume_m3, pressure_pa, t.fill_temperature_k),
-        FillSpec::Mass { mass_kg } => tank::TankFill::by_mass(feed.gas, t.volume_m3, mass_kg, t.fill_temperature_k),
+        FillSpec::Pressure { pressure_pa } => {
+            tank::TankFill::by_pressure(feed.gas, t.volume_m3, pressure_pa, t.fill_temperature_k)
+        }
+        FillSpec::Mass { mass_kg } => {
+            tank::TankFill::by_mass(feed.gas, t.volume_m3, mass_kg, t.fill_temperature_k)
+        }
     };
     // The regulator needs set + dropout at its inlet; the set pressure is above local ambient.
-    let end = tank::end_pressure_pa(feed.regulator.set_pressure_gauge_pa + ambient, feed.regulator.dropout_margin_pa);
+    let end = tank::end_pressure_pa(
+        feed.regulator.set_pressure_gauge_pa + ambient,
+        feed.regulator.dropout_margin_pa,
+    );
     let usable = tank::usable_gas(&fill, end).map_err(gas_error)?;
     let inv = &usable.fill;
     let mut warnings = Vec::new();
@@ -309,7 +336,11 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         tank::TankPhase::TwoPhase {
             liquid_mass_kg,
             liquid_volume_fraction,
-        } => ("saturated liquid under vapour".to_string(), liquid_mass_kg, liquid_volume_fraction),
+        } => (
+            "saturated liquid under vapour".to_string(),
+            liquid_mass_kg,
+            liquid_volume_fraction,
+        ),
     };
     if liquid_mass_kg > 0.0 {
         match t.outlet {
@@ -335,15 +366,25 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         .map(|p| PortGas {
             name: p.name.clone(),
             firing_time_s: usable.isothermal.usable_mass_kg / p.mass_flow_kg_s,
-            minimum_impulse_bit_n_s: minimum_impulse_bit(p.thrust_n, v.opening_delay_s, v.closing_delay_s),
+            minimum_impulse_bit_n_s: minimum_impulse_bit(
+                p.thrust_n,
+                v.opening_delay_s,
+                v.closing_delay_s,
+            ),
         })
         .collect();
     // Flow-weighted mean specific impulse of the ports.
-    let (flow, thrust): (f64, f64) = at.ports.iter().fold((0.0, 0.0), |acc, p| (acc.0 + p.mass_flow_kg_s, acc.1 + p.thrust_n));
+    let (flow, thrust): (f64, f64) = at.ports.iter().fold((0.0, 0.0), |acc, p| {
+        (acc.0 + p.mass_flow_kg_s, acc.1 + p.thrust_n)
+    });
     let isp = thrust / (flow * STANDARD_GRAVITY_M_S2);
     let iso = usable.isothermal.usable_mass_kg;
     let adi = usable.adiabatic.usable_mass_kg;
-    let uncertainty = if iso > 0.0 { usable.isothermal.usable_mass_uncertainty_kg / iso } else { 0.0 };
+    let uncertainty = if iso > 0.0 {
+        usable.isothermal.usable_mass_uncertainty_kg / iso
+    } else {
+        0.0
+    };
     Ok(GasBudget {
         gas: feed.gas.name(),
         tank_volume_m3: t.volume_m3,
@@ -393,7 +434,10 @@ pub fn assumptions(design: &Design, budget: &GasBudget) -> Vec<String> {
         "valve per IEC 60534-2-1 gas sizing equations (or an orifice); nozzle flow is ideal-gas isentropic with the gas's ratio of specific heats".to_string(),
         "minimum impulse bit: thrust × (opening delay + closing delay) / 2 (linear ramps)".to_string(),
     ];
-    if matches!(design.feed.regulator.supply, crate::model::SupplyCapacity::Unlimited) {
+    if matches!(
+        design.feed.regulator.supply,
+        crate::model::SupplyCapacity::Unlimited
+    ) {
         a.push("no supply capacity given: the manifold stays at the set pressure however many valves are open".to_string());
     }
     a

@@ -29,7 +29,10 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
                     a.axis, s.name, a.margin
                 ));
             } else if a.margin < TIGHT_MARGIN {
-                out.push(format!("{} margin at {} is only {:.2}", a.axis, s.name, a.margin));
+                out.push(format!(
+                    "{} margin at {} is only {:.2}",
+                    a.axis, s.name, a.margin
+                ));
             } else if a.margin > GENEROUS_MARGIN {
                 out.push(format!(
                     "{} authority at {} is {:.0} times the requirement: smaller {} holes would save gas",

@@ -161,18 +161,28 @@ pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorConditi
     let i = mass.inertia_diagonal();
     let misalignment = if motor == MotorCondition::Burning {
         let nozzle_station = design.motor.fore_station_m + design.motor.length_m;
-        r.motor_thrust_n * r.thrust_misalignment_rad.sin() * (nozzle_station - mass.cg_station_m).abs()
+        r.motor_thrust_n
+            * r.thrust_misalignment_rad.sin()
+            * (nozzle_station - mass.cg_station_m).abs()
     } else {
         0.0
     };
     Required {
-        from_acceleration_n_m: [i[0] * r.roll_accel_rad_s2, i[1] * r.pitch_accel_rad_s2, i[2] * r.yaw_accel_rad_s2],
+        from_acceleration_n_m: [
+            i[0] * r.roll_accel_rad_s2,
+            i[1] * r.pitch_accel_rad_s2,
+            i[2] * r.yaw_accel_rad_s2,
+        ],
         from_disturbance_n_m: [r.roll_disturbance_n_m, misalignment, misalignment],
     }
 }
 
 /// Force and torque about `cg` of each port at the given thrusts.
-pub fn port_wrenches(design: &Design, cg: Vector3<f64>, thrusts_n: &[f64]) -> Vec<(Vector3<f64>, Vector3<f64>)> {
+pub fn port_wrenches(
+    design: &Design,
+    cg: Vector3<f64>,
+    thrusts_n: &[f64],
+) -> Vec<(Vector3<f64>, Vector3<f64>)> {
     let radius = design.airframe.outer_radius_m();
     design
         .ports
@@ -186,7 +196,11 @@ pub fn port_wrenches(design: &Design, cg: Vector3<f64>, thrusts_n: &[f64]) -> Ve
 }
 
 /// The effectiveness matrix at a state from the ports' operating points there.
-pub fn effectiveness(design: &Design, mass: &MassSummary, ports: &[PortReport]) -> Result<Effectiveness, String> {
+pub fn effectiveness(
+    design: &Design,
+    mass: &MassSummary,
+    ports: &[PortReport],
+) -> Result<Effectiveness, String> {
     let radius = design.airframe.outer_radius_m();
     let geometry: Vec<PortGeometry> = design
         .ports
@@ -203,8 +217,14 @@ pub fn effectiveness(design: &Design, mass: &MassSummary, ports: &[PortReport]) 
     Effectiveness::from_ports(&geometry).map_err(|e| e.to_string())
 }
 
+/// Largest torques along +roll, +pitch, +yaw and along −roll, −pitch, −yaw (as positive numbers).
+type AxisPair = (Vector3<f64>, Vector3<f64>);
+
 /// Summarise the exact envelope and return the ± axis limits.
-fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, (Vector3<f64>, Vector3<f64>)), String> {
+fn envelope(
+    e: &Effectiveness,
+    mass: &MassSummary,
+) -> Result<(EnvelopeSummary, AxisPair), String> {
     let tol = Tolerances::default();
     let z = Zonotope::torque(e, &tol).map_err(|e| e.to_string())?;
     let c = Controllability::from_zonotope(e, &z, &tol);
@@ -231,9 +251,11 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     let budget = feed::gas_budget(design)?;
     let mut states = Vec::with_capacity(design.states.len());
     for state in &design.states {
-        let ambient = crate::atmosphere::at_geometric_altitude(state.altitude_m).map_err(|e| AnalysisError::Atmosphere {
-            state: state.name.clone(),
-            reason: e.to_string(),
+        let ambient = crate::atmosphere::at_geometric_altitude(state.altitude_m).map_err(|e| {
+            AnalysisError::Atmosphere {
+                state: state.name.clone(),
+                reason: e.to_string(),
+            }
         })?;
         let gas_in_tank = budget.residual_kg + state.gas_remaining * budget.usable_isothermal_kg;
         let mass = crate::mass::vehicle::state_summary(design, state, gas_in_tank);
@@ -255,7 +277,8 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
         })?;
         let required = required_torques(design, &mass, state.motor);
         let authority = axis_authority(limits.0, limits.1, mass.inertia_diagonal(), &required);
-        let roll_to_pitch_ratio = authority[0].angular_accel_rad_s2 / authority[1].angular_accel_rad_s2;
+        let roll_to_pitch_ratio =
+            authority[0].angular_accel_rad_s2 / authority[1].angular_accel_rad_s2;
         states.push(StateReport {
             name: state.name.clone(),
             altitude_m: state.altitude_m,

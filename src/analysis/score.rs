@@ -64,7 +64,12 @@ pub fn ray_limit(columns: &[Vector3<f64>], e: &Vector3<f64>) -> f64 {
 
 /// Worst margin of `ports` over the states: min over states, axes and senses of
 /// (largest torque along that axis sense) / (required torque). `columns` is scratch.
-pub fn worst_margin(design: &Design, ports: &[Port], states: &[StateInputs], columns: &mut Vec<Vector3<f64>>) -> f64 {
+pub fn worst_margin(
+    design: &Design,
+    ports: &[Port],
+    states: &[StateInputs],
+    columns: &mut Vec<Vector3<f64>>,
+) -> f64 {
     let radius = design.airframe.outer_radius_m();
     let mut worst = f64::INFINITY;
     for s in states {
@@ -144,7 +149,11 @@ pub struct MarginScore {
 impl MarginScore {
     /// Build from an analysis of the starting design and the drill sizes the
     /// optimiser may choose (empty when hole sizes stay fixed).
-    pub fn new(design: &Design, analysis: &super::Analysis, hole_sizes_m: &[f64]) -> Result<Self, super::AnalysisError> {
+    pub fn new(
+        design: &Design,
+        analysis: &super::Analysis,
+        hole_sizes_m: &[f64],
+    ) -> Result<Self, super::AnalysisError> {
         let mut states = Vec::new();
         let mut hole_thrust = Vec::new();
         for s in &analysis.states {
@@ -160,8 +169,14 @@ impl MarginScore {
                     p.nozzle = crate::model::NozzleSpec::Hole {
                         diameter_m: d,
                         discharge_coefficient: match p.nozzle {
-                            crate::model::NozzleSpec::Hole { discharge_coefficient, .. } => discharge_coefficient,
-                            crate::model::NozzleSpec::ConvergingDiverging { discharge_coefficient, .. } => discharge_coefficient,
+                            crate::model::NozzleSpec::Hole {
+                                discharge_coefficient,
+                                ..
+                            } => discharge_coefficient,
+                            crate::model::NozzleSpec::ConvergingDiverging {
+                                discharge_coefficient,
+                                ..
+                            } => discharge_coefficient,
                         },
                     };
                 }
@@ -179,7 +194,11 @@ impl MarginScore {
     }
 
     /// Merit of a set of ports (the design's ports, moved), with `scratch` reused.
-    pub fn merit(&self, ports: &[Port], scratch: &mut (Vec<Vector3<f64>>, Vec<StateInputs>)) -> f64 {
+    pub fn merit(
+        &self,
+        ports: &[Port],
+        scratch: &mut (Vec<Vector3<f64>>, Vec<StateInputs>),
+    ) -> f64 {
         let (columns, states) = scratch;
         if states.len() != self.states.len() {
             *states = self.states.clone();
@@ -206,7 +225,10 @@ impl MarginScore {
 impl crate::optimize::problem::LayoutScore for MarginScore {
     type Scratch = (Vec<Vector3<f64>>, Vec<StateInputs>);
     fn scratch(&self) -> Self::Scratch {
-        (Vec::with_capacity(self.design.ports.len()), self.states.clone())
+        (
+            Vec::with_capacity(self.design.ports.len()),
+            self.states.clone(),
+        )
     }
     fn score(&self, ports: &[Port], scratch: &mut Self::Scratch) -> f64 {
         self.merit(ports, scratch)

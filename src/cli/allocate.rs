@@ -1,12 +1,12 @@
 //! `portwright allocate`: least-gas duty cycles for one torque command.
 
 use anyhow::{anyhow, bail, Context, Result};
+use nalgebra::Vector3;
 use portwright::allocation::mingas::{AllocationStatus, MinGasAllocator, SideForceLimit};
 use portwright::allocation::Tolerances;
 use portwright::analysis::{self, Analysis};
 use portwright::model::Design;
 use portwright::units::{self, Kind};
-use nalgebra::Vector3;
 use std::fmt::Write;
 
 /// Parse "ROLL,PITCH,YAW", each a torque with a unit (a bare 0 is accepted).
@@ -20,19 +20,33 @@ pub fn parse_torque(text: &str) -> Result<Vector3<f64>> {
         v[k] = if p.parse::<f64>() == Ok(0.0) {
             0.0
         } else {
-            units::parse(p, Kind::Torque).map_err(|e| anyhow!("--torque: {}: {e}", ["roll", "pitch", "yaw"][k]))?
+            units::parse(p, Kind::Torque)
+                .map_err(|e| anyhow!("--torque: {}: {e}", ["roll", "pitch", "yaw"][k]))?
         };
     }
     Ok(v)
 }
 
 /// Pick a state report by name (or the first).
-pub fn pick_state<'a>(analysis: &'a Analysis, name: Option<&str>) -> Result<&'a analysis::StateReport> {
+pub fn pick_state<'a>(
+    analysis: &'a Analysis,
+    name: Option<&str>,
+) -> Result<&'a analysis::StateReport> {
     match name {
-        None => analysis.states.first().ok_or_else(|| anyhow!("the layout has no flight states")),
+        None => analysis
+            .states
+            .first()
+            .ok_or_else(|| anyhow!("the layout has no flight states")),
         Some(n) => analysis.states.iter().find(|s| s.name == n).ok_or_else(|| {
-            let names: Vec<_> = analysis.states.iter().map(|s| format!("`{}`", s.name)).collect();
-            anyhow!("--state: no flight state `{n}`; the layout has {}", names.join(", "))
+            let names: Vec<_> = analysis
+                .states
+                .iter()
+                .map(|s| format!("`{}`", s.name))
+                .collect();
+            anyhow!(
+                "--state: no flight state `{n}`; the layout has {}",
+                names.join(", ")
+            )
         }),
     }
 }
@@ -56,11 +70,19 @@ pub fn side_force(text: Option<&str>) -> Result<SideForceLimit> {
 }
 
 /// Run the command and return what to print.
-pub fn run(design: &Design, analysis: &Analysis, torque: &str, state: Option<&str>, side: Option<&str>, json: bool) -> Result<String> {
+pub fn run(
+    design: &Design,
+    analysis: &Analysis,
+    torque: &str,
+    state: Option<&str>,
+    side: Option<&str>,
+    json: bool,
+) -> Result<String> {
     let tau = parse_torque(torque)?;
     let st = pick_state(analysis, state)?;
     let e = analysis::effectiveness(design, &st.mass, &st.ports).map_err(|e| anyhow!(e))?;
-    let mut alloc = MinGasAllocator::new(&e, side_force(side)?, &Tolerances::default()).map_err(|e| anyhow!("{e}"))?;
+    let mut alloc = MinGasAllocator::new(&e, side_force(side)?, &Tolerances::default())
+        .map_err(|e| anyhow!("{e}"))?;
     let a = alloc.allocate(&tau).context("allocation failed")?;
     let saturated = a.status == AllocationStatus::Saturated;
     if json {
@@ -79,13 +101,36 @@ pub fn run(design: &Design, analysis: &Analysis, torque: &str, state: Option<&st
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
     let mut s = String::new();
-    let _ = writeln!(s, "least-gas firing for {} at `{}` (torques about the CG, body axes)", design.name, st.name);
-    let _ = writeln!(s, "command   roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m", tau.x * 1e3, tau.y * 1e3, tau.z * 1e3);
-    let _ = writeln!(s, "achieved  roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m", a.torque.x * 1e3, a.torque.y * 1e3, a.torque.z * 1e3);
+    let _ = writeln!(
+        s,
+        "least-gas firing for {} at `{}` (torques about the CG, body axes)",
+        design.name, st.name
+    );
+    let _ = writeln!(
+        s,
+        "command   roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
+        tau.x * 1e3,
+        tau.y * 1e3,
+        tau.z * 1e3
+    );
+    let _ = writeln!(
+        s,
+        "achieved  roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
+        a.torque.x * 1e3,
+        a.torque.y * 1e3,
+        a.torque.z * 1e3
+    );
     if saturated {
         let _ = writeln!(s, "SATURATED: the command is outside the envelope; {:.1} % of it is produced, in the same direction", a.scale * 100.0);
     }
-    let _ = writeln!(s, "side force {:+.3} {:+.3} {:+.3} N, gas {:.3} g/s", a.force.x, a.force.y, a.force.z, a.gas_rate_kg_s * 1e3);
+    let _ = writeln!(
+        s,
+        "side force {:+.3} {:+.3} {:+.3} N, gas {:.3} g/s",
+        a.force.x,
+        a.force.y,
+        a.force.z,
+        a.gas_rate_kg_s * 1e3
+    );
     for (p, d) in design.ports.iter().zip(&a.duty) {
         let _ = writeln!(s, "  {:<14} duty {:>6.3}", p.name, d);
     }

@@ -2,8 +2,8 @@
 
 pub mod allocate;
 pub mod optimize;
-pub mod table;
 pub mod output;
+pub mod table;
 
 use clap::{Parser, Subcommand};
 use std::path::PathBuf;

@@ -31,14 +31,26 @@ fn worst(a: &Analysis) -> f64 {
 }
 
 /// Run the search and build the before/after report.
-pub fn run(text: &str, source: &str, seed: u64, max_evals: usize, time_limit: Option<f64>, json: bool, stop: &AtomicBool) -> Result<Optimised> {
+pub fn run(
+    text: &str,
+    source: &str,
+    seed: u64,
+    max_evals: usize,
+    time_limit: Option<f64>,
+    json: bool,
+    stop: &AtomicBool,
+) -> Result<Optimised> {
     let design = layout::parse_str(text, source)?;
     let (freedoms, limits) = sections_from_str(text).map_err(|e| anyhow!("{source}: {e}"))?;
     if freedoms.is_empty() {
         bail!("{source}: no [[freedom]] sections: say which ports may move and how far (see the README)");
     }
     let before = analysis::analyze(&design)?;
-    let mut sizes: Vec<f64> = freedoms.iter().filter_map(|f| f.hole_sizes_m.clone()).flatten().collect();
+    let mut sizes: Vec<f64> = freedoms
+        .iter()
+        .filter_map(|f| f.hole_sizes_m.clone())
+        .flatten()
+        .collect();
     sizes.sort_by(f64::total_cmp);
     sizes.dedup();
     let scorer = MarginScore::new(&design, &before, &sizes)?;
@@ -49,19 +61,42 @@ pub fn run(text: &str, source: &str, seed: u64, max_evals: usize, time_limit: Op
         ..SearchSettings::default()
     };
     let bar = ProgressBar::new(max_evals as u64);
-    bar.set_style(ProgressStyle::with_template("{bar:40} {pos}/{len} evaluations  {msg}").unwrap_or_else(|_| ProgressStyle::default_bar()));
+    bar.set_style(
+        ProgressStyle::with_template("{bar:40} {pos}/{len} evaluations  {msg}")
+            .unwrap_or_else(|_| ProgressStyle::default_bar()),
+    );
     let mut progress = |p: &portwright::optimize::search::Progress| {
         bar.set_position(p.evaluations as u64);
-        let best = if p.best.is_feasible() { format!("worst margin {:.3}", p.best.merit) } else { "no feasible layout yet".to_string() };
-        bar.set_message(format!("{best}, {:.0} evaluations/s", p.evaluations_per_second));
+        let best = if p.best.is_feasible() {
+            format!("worst margin {:.3}", p.best.merit)
+        } else {
+            "no feasible layout yet".to_string()
+        };
+        bar.set_message(format!(
+            "{best}, {:.0} evaluations/s",
+            p.evaluations_per_second
+        ));
     };
-    let result = optimize(&design, &freedoms, limits, scorer, &settings, stop, &mut progress)?;
+    let result = optimize(
+        &design,
+        &freedoms,
+        limits,
+        scorer,
+        &settings,
+        stop,
+        &mut progress,
+    )?;
     bar.finish_and_clear();
     let new_text = layout::write::with_ports(text, &result.design.ports)?;
     // The written layout must read back and analyse like any other.
     let reread = layout::parse_str(&new_text, source)?;
     let after = analysis::analyze(&reread)?;
-    let history: Vec<(f64, f64)> = result.outcome.history.iter().map(|h| (h.evaluations as f64, h.best.merit)).collect();
+    let history: Vec<(f64, f64)> = result
+        .outcome
+        .history
+        .iter()
+        .map(|h| (h.evaluations as f64, h.best.merit))
+        .collect();
     let plot_svg = if history.len() >= 2 {
         let scores: Vec<f64> = history.iter().map(|h| h.1).collect();
         let mut best = best_so_far(&scores, Sense::Maximise);
@@ -89,7 +124,14 @@ pub fn run(text: &str, source: &str, seed: u64, max_evals: usize, time_limit: Op
     })
 }
 
-fn report(design: &Design, new: &Design, before: &Analysis, after: &Analysis, outcome: &portwright::optimize::search::Outcome, json: bool) -> Result<String> {
+fn report(
+    design: &Design,
+    new: &Design,
+    before: &Analysis,
+    after: &Analysis,
+    outcome: &portwright::optimize::search::Outcome,
+    json: bool,
+) -> Result<String> {
     let moved: Vec<serde_json::Value> = design
         .ports
         .iter()
@@ -135,15 +177,35 @@ fn report(design: &Design, new: &Design, before: &Analysis, after: &Analysis, ou
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
     let mut s = String::new();
-    let _ = writeln!(s, "optimised {}: worst margin {:.3} -> {:.3} ({} evaluations, {:.1} s, stopped: {:?})", design.name, worst(before), worst(after), outcome.evaluations, outcome.elapsed.as_secs_f64(), outcome.stop);
+    let _ = writeln!(
+        s,
+        "optimised {}: worst margin {:.3} -> {:.3} ({} evaluations, {:.1} s, stopped: {:?})",
+        design.name,
+        worst(before),
+        worst(after),
+        outcome.evaluations,
+        outcome.elapsed.as_secs_f64(),
+        outcome.stop
+    );
     let _ = writeln!(s, "margin per axis (roll, pitch, yaw), before -> after:");
     for (b, a) in before.states.iter().zip(&after.states) {
-        let f = |st: &analysis::StateReport| st.authority.iter().map(|x| format!("{:.2}", x.margin)).collect::<Vec<_>>().join(" ");
+        let f = |st: &analysis::StateReport| {
+            st.authority
+                .iter()
+                .map(|x| format!("{:.2}", x.margin))
+                .collect::<Vec<_>>()
+                .join(" ")
+        };
         let _ = writeln!(s, "  {:<10} {}  ->  {}", b.name, f(b), f(a));
     }
     let _ = writeln!(s, "ports moved:");
     for (a, b) in design.ports.iter().zip(&new.ports) {
-        if a.station_m == b.station_m && a.clock_rad == b.clock_rad && a.tangential_cant_rad == b.tangential_cant_rad && a.axial_cant_rad == b.axial_cant_rad && a.nozzle == b.nozzle {
+        if a.station_m == b.station_m
+            && a.clock_rad == b.clock_rad
+            && a.tangential_cant_rad == b.tangential_cant_rad
+            && a.axial_cant_rad == b.axial_cant_rad
+            && a.nozzle == b.nozzle
+        {
             continue;
         }
         let _ = writeln!(

@@ -6,7 +6,12 @@ use std::path::Path;
 
 /// Write `bytes` to `path` through a temporary file in the same folder, renamed into place.
 /// Refuses to overwrite any path in `protected` (the inputs) unless `allow_inputs` is set.
-pub fn write_atomic(path: &Path, bytes: &[u8], protected: &[&Path], allow_inputs: bool) -> Result<()> {
+pub fn write_atomic(
+    path: &Path,
+    bytes: &[u8],
+    protected: &[&Path],
+    allow_inputs: bool,
+) -> Result<()> {
     if !allow_inputs {
         for p in protected {
             if same_file(path, p) {
@@ -18,11 +23,19 @@ pub fn write_atomic(path: &Path, bytes: &[u8], protected: &[&Path], allow_inputs
         Some(d) if !d.as_os_str().is_empty() => d,
         _ => Path::new("."),
     };
-    std::fs::create_dir_all(dir).with_context(|| format!("{}: cannot create the folder", dir.display()))?;
-    let mut tmp = tempfile::NamedTempFile::new_in(dir).with_context(|| format!("{}: cannot create a temporary file", dir.display()))?;
-    tmp.write_all(bytes).with_context(|| format!("{}: cannot write", path.display()))?;
+    std::fs::create_dir_all(dir)
+        .with_context(|| format!("{}: cannot create the folder", dir.display()))?;
+    let mut tmp = tempfile::NamedTempFile::new_in(dir)
+        .with_context(|| format!("{}: cannot create a temporary file", dir.display()))?;
+    tmp.write_all(bytes)
+        .with_context(|| format!("{}: cannot write", path.display()))?;
     tmp.as_file().sync_all().ok();
-    tmp.persist(path).with_context(|| format!("{}: cannot move the finished file into place", path.display()))?;
+    tmp.persist(path).with_context(|| {
+        format!(
+            "{}: cannot move the finished file into place",
+            path.display()
+        )
+    })?;
     Ok(())
 }
 

@@ -8,8 +8,8 @@
 use super::firmware::{build_tables, render_c_header, render_csv, render_json, TableNames};
 use super::html::{render_html, Block, Figure, HtmlReport, Section, Table};
 use super::plots::{
-    authority_bars_svg, gas_remaining_svg, port_thrust_svg, torque_envelope_svg, AuthorityBars, EnvelopeSlice, GasRemaining, NamedPlot, Plane, Plot,
-    PlotSettings, PortThrust, StateAuthority,
+    authority_bars_svg, gas_remaining_svg, port_thrust_svg, torque_envelope_svg, AuthorityBars,
+    EnvelopeSlice, GasRemaining, NamedPlot, Plane, Plot, PlotSettings, PortThrust, StateAuthority,
 };
 use super::stl::{airframe_stl, drill_axes_stl, exhaust_markers_stl, MarkerSettings, MeshSettings};
 use super::template::{drill_template_svg, TemplateSettings};
@@ -82,7 +82,11 @@ pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, Str
             };
             out.push(NamedPlot {
                 name: format!("envelope-{}-{}", st.name, plane.slug()),
-                caption: format!("Torque envelope at {} in the {} plane, with the required torques", st.name, plane.label()),
+                caption: format!(
+                    "Torque envelope at {} in the {} plane, with the required torques",
+                    st.name,
+                    plane.label()
+                ),
                 plot: torque_envelope_svg(&slice, &slice_settings).map_err(e)?,
             });
         }
@@ -97,7 +101,8 @@ pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, Str
                 let req = st.required.total_n_m();
                 StateAuthority {
                     state: st.name.clone(),
-                    achieved_deg_s2: [0, 1, 2].map(|k| st.authority[k].angular_accel_rad_s2.to_degrees()),
+                    achieved_deg_s2: [0, 1, 2]
+                        .map(|k| st.authority[k].angular_accel_rad_s2.to_degrees()),
                     required_deg_s2: [0, 1, 2].map(|k| (req[k] / i[k]).to_degrees()),
                 }
             })
@@ -105,14 +110,19 @@ pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, Str
     };
     out.push(NamedPlot {
         name: "authority".to_string(),
-        caption: "Angular acceleration authority per axis and flight state, with the requirement".to_string(),
+        caption: "Angular acceleration authority per axis and flight state, with the requirement"
+            .to_string(),
         plot: authority_bars_svg(&bars, &s).map_err(e)?,
     });
     if let Some(first) = analysis.states.first() {
         let thrust = PortThrust {
             layout: design.name.clone(),
             state: first.name.clone(),
-            ports: first.ports.iter().map(|p| (p.name.clone(), p.thrust_n)).collect(),
+            ports: first
+                .ports
+                .iter()
+                .map(|p| (p.name.clone(), p.thrust_n))
+                .collect(),
         };
         out.push(NamedPlot {
             name: "thrust".to_string(),
@@ -121,7 +131,8 @@ pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, Str
         });
     }
     let g = &analysis.gas;
-    let line = |usable: f64, seconds: f64| vec![(0.0, g.inventory_kg), (seconds, g.inventory_kg - usable)];
+    let line =
+        |usable: f64, seconds: f64| vec![(0.0, g.inventory_kg), (seconds, g.inventory_kg - usable)];
     let gas = GasRemaining {
         layout: design.name.clone(),
         firing: "all ports open together".to_string(),
@@ -144,7 +155,11 @@ fn figure(p: &Plot, caption: &str) -> Block {
 }
 
 /// The HTML report.
-pub fn html_report(design: &Design, analysis: &Analysis, plots: &[NamedPlot]) -> Result<String, String> {
+pub fn html_report(
+    design: &Design,
+    analysis: &Analysis,
+    plots: &[NamedPlot],
+) -> Result<String, String> {
     let mut sections = Vec::new();
     let g = &analysis.gas;
     sections.push(Section {
@@ -153,11 +168,29 @@ pub fn html_report(design: &Design, analysis: &Analysis, plots: &[NamedPlot]) ->
             caption: format!("{} tank, {:.0} mL", g.gas, g.tank_volume_m3 * 1e6),
             headers: vec!["quantity".into(), "value".into()],
             rows: vec![
-                vec!["inventory at fill".into(), format!("{:.1} g ({})", g.inventory_kg * 1e3, g.phase)],
-                vec!["tank pressure at fill".into(), format!("{:.1} bar", g.supply_pressure_pa / 1e5)],
-                vec!["usable, isothermal".into(), format!("{:.1} g", g.usable_isothermal_kg * 1e3)],
-                vec!["usable, adiabatic".into(), format!("{:.1} g", g.usable_adiabatic_kg * 1e3)],
-                vec!["total impulse".into(), format!("{:.1} to {:.1} N s", g.total_impulse_adiabatic_n_s, g.total_impulse_isothermal_n_s)],
+                vec![
+                    "inventory at fill".into(),
+                    format!("{:.1} g ({})", g.inventory_kg * 1e3, g.phase),
+                ],
+                vec![
+                    "tank pressure at fill".into(),
+                    format!("{:.1} bar", g.supply_pressure_pa / 1e5),
+                ],
+                vec![
+                    "usable, isothermal".into(),
+                    format!("{:.1} g", g.usable_isothermal_kg * 1e3),
+                ],
+                vec![
+                    "usable, adiabatic".into(),
+                    format!("{:.1} g", g.usable_adiabatic_kg * 1e3),
+                ],
+                vec![
+                    "total impulse".into(),
+                    format!(
+                        "{:.1} to {:.1} N s",
+                        g.total_impulse_adiabatic_n_s, g.total_impulse_isothermal_n_s
+                    ),
+                ],
             ],
         })],
     });
@@ -208,7 +241,10 @@ pub fn html_report(design: &Design, analysis: &Analysis, plots: &[NamedPlot]) ->
                     .collect(),
             }),
         ];
-        for p in plots.iter().filter(|p| p.name.starts_with(&format!("envelope-{}-", st.name))) {
+        for p in plots
+            .iter()
+            .filter(|p| p.name.starts_with(&format!("envelope-{}-", st.name)))
+        {
             blocks.push(figure(&p.plot, &p.caption));
         }
         sections.push(Section {
@@ -244,13 +280,34 @@ pub fn html_report(design: &Design, analysis: &Analysis, plots: &[NamedPlot]) ->
 /// Every output file for the layout.
 pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, String> {
     let mut files = Vec::new();
-    let mut push = |name: &str, bytes: Vec<u8>| files.push(OutputFile { name: name.to_string(), bytes });
-    push("analysis.txt", crate::report::render_text(analysis).into_bytes());
-    push("analysis.json", (serde_json::to_string_pretty(analysis).map_err(|e| e.to_string())? + "\n").into_bytes());
+    let mut push = |name: &str, bytes: Vec<u8>| {
+        files.push(OutputFile {
+            name: name.to_string(),
+            bytes,
+        })
+    };
+    push(
+        "analysis.txt",
+        crate::report::render_text(analysis).into_bytes(),
+    );
+    push(
+        "analysis.json",
+        (serde_json::to_string_pretty(analysis).map_err(|e| e.to_string())? + "\n").into_bytes(),
+    );
     if let Some(st) = analysis.states.first() {
         let e = effectiveness(design, &st.mass, &st.ports)?;
-        let droop: Vec<f64> = st.droop.iter().map(|d| 1.0 - d.thrust_drop_fraction).collect();
-        let factor = move |k: usize| if k == 0 { 1.0 } else { droop.get(k - 1).copied().unwrap_or(1.0) };
+        let droop: Vec<f64> = st
+            .droop
+            .iter()
+            .map(|d| 1.0 - d.thrust_drop_fraction)
+            .collect();
+        let factor = move |k: usize| {
+            if k == 0 {
+                1.0
+            } else {
+                droop.get(k - 1).copied().unwrap_or(1.0)
+            }
+        };
         let options = OnOffOptions {
             coil_current_a: design.feed.valve.coil_current_a,
             ..OnOffOptions::default()
@@ -259,25 +316,53 @@ pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, S
             layout: design.name.clone(),
             flight_state: st.name.clone(),
         };
-        let t = build_tables(&e, &names, &options, &factor, &Tolerances::default(), None).map_err(|e| e.to_string())?;
-        push("allocation.h", render_c_header(&t).map_err(|e| e.to_string())?.into_bytes());
+        let t = build_tables(&e, &names, &options, &factor, &Tolerances::default(), None)
+            .map_err(|e| e.to_string())?;
+        push(
+            "allocation.h",
+            render_c_header(&t).map_err(|e| e.to_string())?.into_bytes(),
+        );
         push("allocation.csv", render_csv(&t).into_bytes());
-        push("allocation.json", render_json(&t).map_err(|e| e.to_string())?.into_bytes());
+        push(
+            "allocation.json",
+            render_json(&t).map_err(|e| e.to_string())?.into_bytes(),
+        );
     }
     let mesh = MeshSettings::default();
-    push("airframe.stl", airframe_stl(design, &mesh).map_err(|e| e.to_string())?);
-    push("drill-axes.stl", drill_axes_stl(design, &mesh).map_err(|e| e.to_string())?);
-    let thrusts: Vec<f64> = analysis.states.first().map(|s| s.ports.iter().map(|p| p.thrust_n).collect()).unwrap_or_default();
-    push("exhaust-markers.stl", exhaust_markers_stl(design, &thrusts, &MarkerSettings::default(), &mesh).map_err(|e| e.to_string())?);
-    let pages = drill_template_svg(design, &TemplateSettings::default()).map_err(|e| e.to_string())?;
+    push(
+        "airframe.stl",
+        airframe_stl(design, &mesh).map_err(|e| e.to_string())?,
+    );
+    push(
+        "drill-axes.stl",
+        drill_axes_stl(design, &mesh).map_err(|e| e.to_string())?,
+    );
+    let thrusts: Vec<f64> = analysis
+        .states
+        .first()
+        .map(|s| s.ports.iter().map(|p| p.thrust_n).collect())
+        .unwrap_or_default();
+    push(
+        "exhaust-markers.stl",
+        exhaust_markers_stl(design, &thrusts, &MarkerSettings::default(), &mesh)
+            .map_err(|e| e.to_string())?,
+    );
+    let pages =
+        drill_template_svg(design, &TemplateSettings::default()).map_err(|e| e.to_string())?;
     for (k, page) in pages.into_iter().enumerate() {
         push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
     }
     let plots = plots(design, analysis)?;
     for p in &plots {
         push(&format!("{}.svg", p.name), p.plot.svg.clone().into_bytes());
-        push(&format!("{}.png", p.name), p.plot.to_png(1.0).map_err(|e| e.to_string())?);
+        push(
+            &format!("{}.png", p.name),
+            p.plot.to_png(1.0).map_err(|e| e.to_string())?,
+        );
     }
-    push("report.html", html_report(design, analysis, &plots)?.into_bytes());
+    push(
+        "report.html",
+        html_report(design, analysis, &plots)?.into_bytes(),
+    );
     Ok(files)
 }

@@ -27,7 +27,9 @@ fn deg(v_rad: f64) -> String {
 
 /// Return `text` with each port's station, clock, cants and hole set from `ports`.
 pub fn with_ports(text: &str, ports: &[Port]) -> Result<String, WriteError> {
-    let mut doc: DocumentMut = text.parse().map_err(|e: toml_edit::TomlError| WriteError::Parse(e.to_string()))?;
+    let mut doc: DocumentMut = text
+        .parse()
+        .map_err(|e: toml_edit::TomlError| WriteError::Parse(e.to_string()))?;
     let tables = doc
         .get_mut("port")
         .and_then(|p| p.as_array_of_tables_mut())
@@ -35,7 +37,9 @@ pub fn with_ports(text: &str, ports: &[Port]) -> Result<String, WriteError> {
     for port in ports {
         let t = tables
             .iter_mut()
-            .find(|t| t.get("name").and_then(|n| n.as_str()).map(str::trim) == Some(port.name.as_str()))
+            .find(|t| {
+                t.get("name").and_then(|n| n.as_str()).map(str::trim) == Some(port.name.as_str())
+            })
             .ok_or_else(|| WriteError::MissingPort(port.name.clone()))?;
         t["station"] = value(mm(port.station_m));
         t["clock"] = value(deg(port.clock_rad.rem_euclid(std::f64::consts::TAU)));

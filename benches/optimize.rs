@@ -42,7 +42,7 @@ impl Objective for Sum {
 fn freedoms() -> Vec<Freedom> {
     let deg = f64::to_radians;
     let mut pitch = Freedom::new(
-        &["pitch-up", "yaw-right", "pitch-down", "yaw-left"],
+        &["yaw-neg", "pitch-pos", "yaw-pos", "pitch-neg"],
         Together::Ring,
     );
     pitch.station_m = Some(Span::new(0.25, 0.58));

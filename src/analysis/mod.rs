@@ -221,10 +221,7 @@ pub fn effectiveness(
 type AxisPair = (Vector3<f64>, Vector3<f64>);
 
 /// Summarise the exact envelope and return the ± axis limits.
-fn envelope(
-    e: &Effectiveness,
-    mass: &MassSummary,
-) -> Result<(EnvelopeSummary, AxisPair), String> {
+fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, AxisPair), String> {
     let tol = Tolerances::default();
     let z = Zonotope::torque(e, &tol).map_err(|e| e.to_string())?;
     let c = Controllability::from_zonotope(e, &z, &tol);

@@ -29,7 +29,7 @@
 //!
 //! let design = portwright::layout::parse_str(
 //!     include_str!("../../layouts/heron-54.toml"), "heron-54.toml").unwrap();
-//! let mut f = Freedom::new(&["pitch-up", "pitch-down"], Together::Mirror);
+//! let mut f = Freedom::new(&["yaw-neg", "yaw-pos"], Together::Mirror);
 //! f.station_m = Some(Span::new(0.25, 0.45));
 //! let settings = SearchSettings { max_evaluations: 600, ..SearchSettings::default() };
 //! let done = optimize(&design, &[f], Limits::default(), Aft, &settings,
@@ -105,6 +105,12 @@ mod tests {
 
     const DEMO: &str = include_str!("../../layouts/heron-54.toml");
 
+    /// The demo without its own `[[freedom]]` and `[limits]` sections, so a test can add its own.
+    fn without_sections(text: &str) -> &str {
+        text.find("\n# What the optimiser")
+            .map_or(text, |k| &text[..k])
+    }
+
     const SECTIONS: &str = r#"
 [[freedom]]
 ports = ["roll-pos-a", "roll-pos-b"]
@@ -137,7 +143,7 @@ max_cant = "50 deg"
 
     #[test]
     fn layout_with_freedom_and_limits_runs_end_to_end() {
-        let text = format!("{DEMO}\n{SECTIONS}");
+        let text = format!("{}\n{SECTIONS}", without_sections(DEMO));
         let design = crate::layout::parse_str(&text, "heron-54.toml")
             .expect("the reader keeps the sections");
         let (freedoms, limits) = sections_from_str(&text).unwrap();
@@ -174,7 +180,7 @@ max_cant = "50 deg"
 
     #[test]
     fn layout_search_is_the_same_with_one_or_two_threads() {
-        let text = format!("{DEMO}\n{SECTIONS}");
+        let text = format!("{}\n{SECTIONS}", without_sections(DEMO));
         let design = crate::layout::parse_str(&text, "heron-54.toml").unwrap();
         let (freedoms, limits) = sections_from_str(&text).unwrap();
         let settings = SearchSettings {

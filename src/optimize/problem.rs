@@ -258,7 +258,7 @@ mod tests {
     #[test]
     fn radial_pair_goes_to_the_station_farthest_from_the_reference() {
         let d = demo();
-        let mut f = Freedom::new(&["pitch-up", "pitch-down"], Together::Mirror);
+        let mut f = Freedom::new(&["yaw-neg", "yaw-pos"], Together::Mirror);
         f.station_m = Some(Span::new(0.25, 0.58));
         let r = run(
             &d,
@@ -280,7 +280,7 @@ mod tests {
         // Coupler band from 600 mm; 1.6 mm hole: edge distance 2 d = 3.2 mm from the
         // centre beats margin 2 mm + radius 0.8 mm, so the centre stops at 596.8 mm.
         let d = demo();
-        let mut f = Freedom::new(&["pitch-up", "pitch-down"], Together::Mirror);
+        let mut f = Freedom::new(&["yaw-neg", "yaw-pos"], Together::Mirror);
         f.station_m = Some(Span::new(0.45, 0.62));
         let r = run(
             &d,
@@ -327,7 +327,7 @@ mod tests {
         // the arc from the patch centre must be 7 + 2 + 0.8 mm on a 27 mm radius.
         let mut d = demo();
         d.ports[1].station_m = 0.52;
-        let mut f = Freedom::new(&["yaw-right"], Together::Each);
+        let mut f = Freedom::new(&["pitch-pos"], Together::Each);
         f.clock_rad = Some(Span::new(0.0, deg(90.0)));
         let r = run(
             &d,
@@ -378,7 +378,7 @@ mod tests {
         let mut d = demo();
         d.ports[1].station_m = 0.3062;
         d.ports[1].clock_rad = 0.0;
-        let mut f = Freedom::new(&["pitch-up"], Together::Each);
+        let mut f = Freedom::new(&["yaw-neg"], Together::Each);
         f.hole_sizes_m = Some(DrillSeries::Metric.sizes_m());
         let r = run(
             &d,
@@ -423,7 +423,7 @@ mod tests {
     #[test]
     fn stop_flag_before_the_start_still_returns_a_checked_layout() {
         let d = demo();
-        let mut f = Freedom::new(&["pitch-up", "pitch-down"], Together::Mirror);
+        let mut f = Freedom::new(&["yaw-neg", "yaw-pos"], Together::Mirror);
         f.station_m = Some(Span::new(0.25, 0.45));
         let r = optimize(
             &d,

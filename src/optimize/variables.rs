@@ -735,7 +735,7 @@ mod tests {
     fn ring_spaces_ports_equally_and_round_trips() {
         let design = demo();
         let mut f = Freedom::new(
-            &["pitch-up", "yaw-right", "pitch-down", "yaw-left"],
+            &["yaw-neg", "pitch-pos", "yaw-pos", "pitch-neg"],
             Together::Ring,
         );
         f.station_m = Some(Span::new(0.25, 0.55));
@@ -766,7 +766,7 @@ mod tests {
     #[test]
     fn each_gives_every_port_its_own_coordinates() {
         let design = demo();
-        let mut f = Freedom::new(&["pitch-up", "yaw-right"], Together::Each);
+        let mut f = Freedom::new(&["yaw-neg", "pitch-pos"], Together::Each);
         f.axial_cant_rad = Some(Span::new(deg(-10.0), deg(10.0)));
         let v = Variables::new(&design, &[f]).unwrap();
         let mut ports = design.ports.clone();
@@ -796,18 +796,18 @@ mod tests {
             Variables::new(&design, &[unknown]),
             Err(VariableError::UnknownPort { .. })
         ));
-        let a = Freedom::new(&["pitch-up"], Together::Each);
-        let b = Freedom::new(&["pitch-up", "pitch-down"], Together::Mirror);
+        let a = Freedom::new(&["yaw-neg"], Together::Each);
+        let b = Freedom::new(&["yaw-neg", "yaw-pos"], Together::Mirror);
         assert!(matches!(
             Variables::new(&design, &[a, b]),
             Err(VariableError::PortTwice { first: 0, .. })
         ));
-        let three = Freedom::new(&["pitch-up", "pitch-down", "yaw-left"], Together::Mirror);
+        let three = Freedom::new(&["yaw-neg", "yaw-pos", "pitch-neg"], Together::Mirror);
         assert!(matches!(
             Variables::new(&design, &[three]),
             Err(VariableError::PortCount { found: 3, .. })
         ));
-        let mut rev = Freedom::new(&["pitch-up"], Together::Each);
+        let mut rev = Freedom::new(&["yaw-neg"], Together::Each);
         rev.station_m = Some(Span::new(0.5, 0.4));
         assert!(matches!(
             Variables::new(&design, &[rev]),
@@ -830,7 +830,7 @@ mod tests {
             hole_range = ["1 mm", "2 mm"]
 
             [[freedom]]
-            ports = ["pitch-up"]
+            ports = ["yaw-neg"]
             drills = ["1.2 mm", "0.0625 in", "0.9 mm"]
         "#;
         let value: toml::Value = toml::from_str(text).unwrap();

@@ -166,3 +166,57 @@ fn report_renders_in_a_browser() {
         "the thrust bars were not drawn: {bars} pixels"
     );
 }
+
+/// Fraction of non-white pixels and count of dark (text) pixels in a screenshot.
+fn ink(png_path: &Path) -> (f64, usize) {
+    let bytes = std::fs::read(png_path).expect("chromium wrote the screenshot");
+    let decoder = png::Decoder::new(std::io::Cursor::new(bytes));
+    let mut reader = decoder.read_info().expect("PNG header");
+    let mut buf = vec![0; reader.output_buffer_size().expect("buffer size")];
+    let info = reader.next_frame(&mut buf).expect("PNG data");
+    let channels = info.color_type.samples();
+    let pixels: Vec<&[u8]> = buf[..info.buffer_size()].chunks_exact(channels).collect();
+    let white = pixels
+        .iter()
+        .filter(|p| p[..3].iter().all(|&c| c >= 253))
+        .count();
+    let dark = pixels
+        .iter()
+        .filter(|p| p[..3].iter().map(|&c| u32::from(c)).sum::<u32>() < 200)
+        .count();
+    (1.0 - white as f64 / pixels.len() as f64, dark)
+}
+
+/// The committed demo report and drilling template open in a browser and show
+/// text and drawings (the report embeds its plots inline, so they render too).
+#[test]
+fn demo_report_and_template_render_in_a_browser() {
+    if !Path::new(CHROMIUM).exists() {
+        println!(
+            "skipping the browser check: {CHROMIUM} is not installed (apt-get install chromium)"
+        );
+        return;
+    }
+    let dir = tempfile::tempdir().expect("temporary directory");
+    for file in [
+        "exports/heron-54/report.html",
+        "exports/heron-54/drill-template-1.svg",
+    ] {
+        let path = std::fs::canonicalize(file).expect("committed export");
+        let png_path = dir.path().join("shot.png");
+        assert!(
+            screenshot(&path, &png_path, &dir.path().join("profile")),
+            "chromium failed on {file}"
+        );
+        let (covered, dark) = ink(&png_path);
+        println!(
+            "{file}: {:.1} % covered, {dark} dark pixels",
+            covered * 100.0
+        );
+        assert!(covered > 0.02, "{file} renders blank");
+        assert!(
+            dark > 1_000,
+            "{file} shows too little text: {dark} dark pixels"
+        );
+    }
+}

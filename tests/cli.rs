@@ -157,11 +157,17 @@ fn readme_commands_work() {
     for line in readme.lines() {
         let cmd = line.split('#').next().unwrap().trim();
         if let Some(args) = cmd.strip_prefix("cargo run --release -- ") {
-            let mut args: Vec<String> = args.split_whitespace().map(String::from).collect();
+            let mut args = split_args(args);
             // Commands that write files write into a temporary folder instead.
             let dir = tempfile::tempdir().unwrap();
-            if let Some(k) = args.iter().position(|a| a == "--out") {
-                args[k + 1] = dir.path().join("out").display().to_string();
+            for flag in ["--out", "--plot"] {
+                if let Some(k) = args.iter().position(|a| a == flag) {
+                    args[k + 1] = dir
+                        .path()
+                        .join(&args[k + 1].replace('/', "_"))
+                        .display()
+                        .to_string();
+                }
             }
             let out = portwright().args(&args).output().unwrap();
             assert!(
@@ -172,7 +178,7 @@ fn readme_commands_work() {
             ran += 1;
         }
     }
-    assert!(ran >= 1, "no README commands found");
+    assert!(ran >= 5, "expected the README's commands, found {ran}");
 }
 
 #[test]
@@ -274,4 +280,26 @@ fn table_writes_each_format_and_optimize_improves_the_demo() {
     let text = std::fs::read_to_string(&new).unwrap();
     assert!(text.contains("# Copy this file and change the numbers"));
     run_ok(&["analyze", new.to_str().unwrap()]);
+}
+
+/// Split a shell command line on spaces, keeping "double-quoted" words together.
+fn split_args(line: &str) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut quoted = false;
+    for c in line.chars() {
+        match c {
+            '"' => quoted = !quoted,
+            ' ' if !quoted => {
+                if !cur.is_empty() {
+                    out.push(std::mem::take(&mut cur));
+                }
+            }
+            _ => cur.push(c),
+        }
+    }
+    if !cur.is_empty() {
+        out.push(cur);
+    }
+    out
 }

@@ -164,7 +164,7 @@ fn readme_commands_work() {
                 if let Some(k) = args.iter().position(|a| a == flag) {
                     args[k + 1] = dir
                         .path()
-                        .join(&args[k + 1].replace('/', "_"))
+                        .join(args[k + 1].replace('/', "_"))
                         .display()
                         .to_string();
                 }

@@ -27,6 +27,8 @@ pub struct Design {
     pub requirements: Requirements,
     /// Flight states to check (at least two).
     pub states: Vec<FlightState>,
+    /// Manoeuvres to budget gas for.
+    pub manoeuvres: Vec<Manoeuvre>,
     /// Plain notes about how the file was read (for example "`150 psi` read as gauge").
     pub readings: Vec<String>,
 }
@@ -466,6 +468,57 @@ pub struct Requirements {
     pub roll_disturbance_n_m: f64,
     /// How long the vehicle must hold attitude against the disturbances, s.
     pub hold_time_s: f64,
+    /// Fraction of the usable gas kept in reserve by the manoeuvre budget.
+    pub gas_reserve: f64,
+}
+
+/// A manoeuvre the gas budget must cover.
+#[derive(Debug, Clone, Serialize)]
+pub struct Manoeuvre {
+    /// Label.
+    pub name: String,
+    /// Flight state whose inertia and ports it uses (default: the last state).
+    pub state: Option<String>,
+    /// What it does.
+    pub kind: ManoeuvreKind,
+}
+
+/// The kinds of manoeuvre.
+#[derive(Debug, Clone, Copy, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum ManoeuvreKind {
+    /// Spin up about roll to a rate (sign gives the sense), then hold it against the roll disturbance.
+    Spin {
+        /// Target roll rate, rad/s.
+        rate_rad_s: f64,
+        /// Time the rate is held, s.
+        hold_s: f64,
+    },
+    /// Bring a roll rate back to zero.
+    Despin {
+        /// Roll rate removed, rad/s.
+        rate_rad_s: f64,
+    },
+    /// Hold attitude against a steady torque about one axis.
+    Hold {
+        /// Axis index: 0 roll, 1 pitch, 2 yaw.
+        axis: usize,
+        /// Disturbance torque to cancel, N·m.
+        torque_n_m: f64,
+        /// Duration, s.
+        time_s: f64,
+    },
+    /// Turn about pitch or yaw through an angle, starting and ending at rest.
+    Turn {
+        /// Axis index: 1 pitch, 2 yaw.
+        axis: usize,
+        /// Angle, rad.
+        angle_rad: f64,
+        /// Peak rate, rad/s; the fastest turn at full authority when absent.
+        rate_rad_s: Option<f64>,
+        /// How many such turns.
+        count: u32,
+    },
 }
 
 /// Whether the motor is full or spent.

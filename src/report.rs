@@ -253,6 +253,28 @@ pub fn render_text(a: &Analysis) -> String {
         );
     }
 
+    if let Some(p) = &a.manoeuvres {
+        let _ = writeln!(s, "Manoeuvre gas budget (least gas from the allocator)");
+        let mut t = table(&["manoeuvre", "state", "axis", "impulse (mN m s)", "gas (g)"]);
+        for m in &p.items {
+            t.add_row(vec![
+                Cell::new(&m.name),
+                Cell::new(&m.state),
+                Cell::new(m.axis),
+                num(m.impulse_n_m_s * 1e3, 2),
+                num(m.gas_kg * 1e3, 2),
+            ]);
+        }
+        let _ = writeln!(s, "{t}");
+        let _ = writeln!(
+            s,
+            "total {:.2} g of {:.2} g usable after a {:.0} % reserve: {}\n",
+            p.total_gas_kg * 1e3,
+            p.available_kg * 1e3,
+            p.reserve_fraction * 100.0,
+            if p.fits { "fits" } else { "DOES NOT FIT" }
+        );
+    }
     let _ = writeln!(s, "Findings");
     for f in &a.findings {
         let _ = writeln!(s, "  * {f}");

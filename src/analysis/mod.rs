@@ -11,6 +11,7 @@
 pub mod authority;
 pub mod feed;
 pub mod findings;
+pub mod manoeuvre;
 pub mod score;
 
 use crate::allocation::controllability::Controllability;
@@ -147,6 +148,8 @@ pub struct Analysis {
     pub gas: GasBudget,
     /// Per flight state.
     pub states: Vec<StateReport>,
+    /// Gas budget of the manoeuvre list, when the layout has one.
+    pub manoeuvres: Option<manoeuvre::ManoeuvrePlan>,
     /// Plain-words findings.
     pub findings: Vec<String>,
     /// Safety cautions.
@@ -295,8 +298,37 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     }
     let mut assumptions = design.readings.clone();
     assumptions.extend(feed::assumptions(design, &budget));
-    let findings = findings::findings(design, &budget, &states);
+    let mut findings = findings::findings(design, &budget, &states);
+    let mut partial = Analysis {
+        layout: design.name.clone(),
+        assumptions: Vec::new(),
+        gas: budget.clone(),
+        states: states.clone(),
+        manoeuvres: None,
+        findings: Vec::new(),
+        cautions: Vec::new(),
+    };
+    let manoeuvres = manoeuvre::plan(design, &partial).map_err(AnalysisError::Gas)?;
+    partial.states.clear();
+    if let Some(p) = &manoeuvres {
+        findings.push(if p.fits {
+            format!(
+                "the manoeuvre list needs {:.1} g of gas; {:.1} g is usable after a {:.0} % reserve (adiabatic bound): it fits",
+                p.total_gas_kg * 1e3,
+                p.available_kg * 1e3,
+                p.reserve_fraction * 100.0
+            )
+        } else {
+            format!(
+                "the manoeuvre list needs {:.1} g of gas but only {:.1} g is usable after a {:.0} % reserve (adiabatic bound): shorten the list or carry more gas",
+                p.total_gas_kg * 1e3,
+                p.available_kg * 1e3,
+                p.reserve_fraction * 100.0
+            )
+        });
+    }
     Ok(Analysis {
+        manoeuvres,
         layout: design.name.clone(),
         assumptions,
         gas: budget,

@@ -332,6 +332,7 @@ pub(crate) mod fixture {
                 thrust_misalignment_rad: 0.0,
                 roll_disturbance_n_m: 0.0,
                 hold_time_s: 1.0,
+                gas_reserve: 0.2,
             },
             states: vec![
                 FlightState {
@@ -359,6 +360,7 @@ pub(crate) mod fixture {
                     },
                 },
             ],
+            manoeuvres: vec![],
             readings: vec![],
         }
     }

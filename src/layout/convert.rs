@@ -209,6 +209,11 @@ pub fn to_design(raw: &LayoutFile, text: &str) -> Result<Design, Vec<Diagnostic>
     let ports = read_ports(&mut r, raw, &airframe);
     let requirements = read_requirements(&mut r, raw.requirements.get_ref());
     let states = read_states(&mut r, raw);
+    let manoeuvres = raw
+        .manoeuvre
+        .iter()
+        .map(|m| read_manoeuvre(&mut r, m, &states))
+        .collect();
     if r.problems.is_empty() {
         Ok(Design {
             name: raw.name.get_ref().clone(),
@@ -219,6 +224,7 @@ pub fn to_design(raw: &LayoutFile, text: &str) -> Result<Design, Vec<Diagnostic>
             ports,
             requirements,
             states,
+            manoeuvres,
             readings: r.readings,
         })
     } else {
@@ -830,6 +836,13 @@ fn read_requirements(r: &mut Reader, q: &RequirementsFile) -> Requirements {
             Kind::Time,
             0.0,
         ),
+        gas_reserve: r.fraction(
+            q.gas_reserve.as_ref(),
+            "requirements.gas_reserve",
+            0.2,
+            0.0,
+            0.95,
+        ),
     }
 }
 
@@ -901,4 +914,104 @@ fn read_states(r: &mut Reader, raw: &LayoutFile) -> Vec<FlightState> {
         });
     }
     states
+}
+
+fn read_manoeuvre(r: &mut Reader, m: &Spanned<ManoeuvreFile>, states: &[FlightState]) -> Manoeuvre {
+    let span = m.span();
+    let m = m.get_ref();
+    let field = format!("manoeuvre `{}`", m.name.get_ref());
+    let need = |q: &Option<Q>, name: &str, kind: Kind, r: &mut Reader| -> f64 {
+        match q {
+            Some(q) => r.qty(q, &format!("{field}.{name}"), kind),
+            None => {
+                r.problem(
+                    span.clone(),
+                    &field,
+                    format!("this kind of manoeuvre needs `{name}`"),
+                );
+                0.0
+            }
+        }
+    };
+    let axis = |r: &mut Reader, allowed: &[(&str, usize)]| -> usize {
+        match &m.axis {
+            Some(a) => r.choice(Some(a), &format!("{field}.axis"), allowed, allowed[0].1),
+            None => {
+                r.problem(span.clone(), &field, "this kind of manoeuvre needs `axis`");
+                allowed[0].1
+            }
+        }
+    };
+    #[derive(Clone, Copy)]
+    enum K {
+        Spin,
+        Despin,
+        Hold,
+        Turn,
+    }
+    let kind = r.choice(
+        Some(&m.kind),
+        &format!("{field}.kind"),
+        &[
+            ("spin", K::Spin),
+            ("despin", K::Despin),
+            ("hold", K::Hold),
+            ("turn", K::Turn),
+        ],
+        K::Hold,
+    );
+    let kind = match kind {
+        K::Spin => ManoeuvreKind::Spin {
+            rate_rad_s: need(&m.rate, "rate", Kind::AngularRate, r),
+            hold_s: m.hold.as_ref().map_or(0.0, |q| {
+                r.non_negative(q, &format!("{field}.hold"), Kind::Time)
+            }),
+        },
+        K::Despin => ManoeuvreKind::Despin {
+            rate_rad_s: need(&m.rate, "rate", Kind::AngularRate, r),
+        },
+        K::Hold => ManoeuvreKind::Hold {
+            axis: axis(r, &[("roll", 0), ("pitch", 1), ("yaw", 2)]),
+            torque_n_m: need(&m.torque, "torque", Kind::Torque, r),
+            time_s: need(&m.time, "time", Kind::Time, r).max(0.0),
+        },
+        K::Turn => {
+            let count = m.count.as_ref().map_or(1, |c| {
+                let v = *c.get_ref();
+                if !(1..=10_000).contains(&v) {
+                    r.problem(
+                        c.span(),
+                        &format!("{field}.count"),
+                        format!("expected 1 to 10000 turns, found {v}"),
+                    );
+                }
+                v.clamp(1, 10_000) as u32
+            });
+            ManoeuvreKind::Turn {
+                axis: axis(r, &[("pitch", 1), ("yaw", 2)]),
+                angle_rad: need(&m.angle, "angle", Kind::Angle, r),
+                rate_rad_s: m
+                    .rate
+                    .as_ref()
+                    .map(|q| r.positive(q, &format!("{field}.rate"), Kind::AngularRate)),
+                count,
+            }
+        }
+    };
+    let state = m.state.as_ref().map(|s| {
+        let name = s.get_ref().trim().to_string();
+        if !states.iter().any(|st| st.name == name) {
+            r.problem(
+                s.span(),
+                &format!("{field}.state"),
+                format!("no flight state named `{name}`"),
+            );
+        }
+        name
+    });
+    Manoeuvre {
+        name: m.name.get_ref().clone(),
+        state,
+        kind,
+    }
 }

@@ -33,14 +33,14 @@ pub struct LayoutFile {
     /// Flight states.
     #[serde(default)]
     pub state: Vec<Spanned<StateFile>>,
-    /// Sections read by later stages (manoeuvres, what the optimiser may move);
-    /// kept as raw TOML here so this stage does not reject them.
+    /// Manoeuvres for the gas budget.
     #[serde(default)]
-    pub manoeuvre: Option<toml::Value>,
-    /// See `manoeuvre`.
+    pub manoeuvre: Vec<Spanned<ManoeuvreFile>>,
+    /// What the optimiser may move: read by `optimize::sections_from_str`, kept
+    /// as raw TOML here so this stage does not reject it.
     #[serde(default)]
     pub freedom: Option<toml::Value>,
-    /// See `manoeuvre`.
+    /// The optimiser's rules; see `freedom`.
     #[serde(default)]
     pub limits: Option<toml::Value>,
 }
@@ -282,6 +282,34 @@ pub struct RequirementsFile {
     pub roll_disturbance: Option<Q>,
     /// Hold time.
     pub hold_time: Option<Q>,
+    /// Fraction of usable gas kept in reserve.
+    pub gas_reserve: Option<Spanned<f64>>,
+}
+
+/// `[[manoeuvre]]`.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ManoeuvreFile {
+    /// Label.
+    pub name: Spanned<String>,
+    /// spin, despin, hold or turn.
+    pub kind: Spanned<String>,
+    /// Flight state to use.
+    pub state: Option<Spanned<String>>,
+    /// Roll rate (spin, despin) or peak rate (turn).
+    pub rate: Option<Q>,
+    /// Time a spin rate is held.
+    pub hold: Option<Q>,
+    /// roll, pitch or yaw (hold, turn).
+    pub axis: Option<Spanned<String>>,
+    /// Disturbance torque (hold).
+    pub torque: Option<Q>,
+    /// Duration (hold).
+    pub time: Option<Q>,
+    /// Turn angle.
+    pub angle: Option<Q>,
+    /// Number of turns.
+    pub count: Option<Spanned<i64>>,
 }
 
 /// `[[state]]`.

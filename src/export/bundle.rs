@@ -277,6 +277,40 @@ pub fn html_report(
     .map_err(|e| e.to_string())
 }
 
+/// Firmware tables for one flight state: the state's effectiveness matrix, the
+/// valve coil current from the layout, and the supply droop of that state (thrust
+/// of each port with k valves open relative to one).
+pub fn state_tables(
+    design: &Design,
+    st: &StateReport,
+    options: &OnOffOptions,
+    grid: Option<usize>,
+) -> Result<super::firmware::FirmwareTables, String> {
+    let e = effectiveness(design, &st.mass, &st.ports)?;
+    let droop: Vec<f64> = st
+        .droop
+        .iter()
+        .map(|d| 1.0 - d.thrust_drop_fraction)
+        .collect();
+    let factor = move |k: usize| {
+        if k == 0 {
+            1.0
+        } else {
+            droop.get(k - 1).copied().unwrap_or(1.0)
+        }
+    };
+    let options = OnOffOptions {
+        coil_current_a: design.feed.valve.coil_current_a,
+        ..*options
+    };
+    let names = TableNames {
+        layout: design.name.clone(),
+        flight_state: st.name.clone(),
+    };
+    build_tables(&e, &names, &options, &factor, &Tolerances::default(), grid)
+        .map_err(|e| e.to_string())
+}
+
 /// Every output file for the layout.
 pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, String> {
     let mut files = Vec::new();
@@ -295,29 +329,7 @@ pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, S
         (serde_json::to_string_pretty(analysis).map_err(|e| e.to_string())? + "\n").into_bytes(),
     );
     if let Some(st) = analysis.states.first() {
-        let e = effectiveness(design, &st.mass, &st.ports)?;
-        let droop: Vec<f64> = st
-            .droop
-            .iter()
-            .map(|d| 1.0 - d.thrust_drop_fraction)
-            .collect();
-        let factor = move |k: usize| {
-            if k == 0 {
-                1.0
-            } else {
-                droop.get(k - 1).copied().unwrap_or(1.0)
-            }
-        };
-        let options = OnOffOptions {
-            coil_current_a: design.feed.valve.coil_current_a,
-            ..OnOffOptions::default()
-        };
-        let names = TableNames {
-            layout: design.name.clone(),
-            flight_state: st.name.clone(),
-        };
-        let t = build_tables(&e, &names, &options, &factor, &Tolerances::default(), None)
-            .map_err(|e| e.to_string())?;
+        let t = state_tables(design, st, &OnOffOptions::default(), None)?;
         push(
             "allocation.h",
             render_c_header(&t).map_err(|e| e.to_string())?.into_bytes(),

@@ -113,15 +113,16 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("wrote {}", target.display());
             Ok(())
         }
-        Command::Run { layout, out } => {
+        Command::Run { layout, out, paper } => {
             eprintln!("reading {}", layout.display());
             let design = layout::load(&layout)?;
             eprintln!("analysing: mass properties, gas, port flows, envelopes");
             let analysis = portwright::analysis::analyze(&design)
                 .with_context(|| format!("{}: analysis failed", layout.display()))?;
             eprintln!("building tables, meshes, template, plots and the report");
-            let files = portwright::export::bundle::bundle(&design, &analysis)
-                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+            let files =
+                portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper))
+                    .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
             print!("{}", portwright::report::render_text(&analysis));
             println!();
             for f in &files {
@@ -146,5 +147,16 @@ fn run(cli: Cli) -> Result<()> {
             }
             Ok(())
         }
+    }
+}
+
+fn template_settings(paper: cli::PaperSize) -> portwright::export::template::TemplateSettings {
+    use portwright::export::template::{Paper, TemplateSettings};
+    TemplateSettings {
+        paper: match paper {
+            cli::PaperSize::A4 => Paper::A4,
+            cli::PaperSize::Letter => Paper::Letter,
+        },
+        ..TemplateSettings::default()
     }
 }

@@ -27,6 +27,9 @@ pub enum Command {
         /// Folder to write into.
         #[arg(long)]
         out: PathBuf,
+        /// Paper for the drilling template pages.
+        #[arg(long, value_enum, default_value = "a4")]
+        paper: PaperSize,
     },
     /// Mass properties, gas budget, per-port thrust, torques, authority and findings.
     Analyze {
@@ -116,4 +119,13 @@ pub enum TableFormat {
     Csv,
     /// JSON.
     Json,
+}
+
+/// Paper sizes for the drilling template.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum PaperSize {
+    /// ISO A4.
+    A4,
+    /// US Letter.
+    Letter,
 }

@@ -312,7 +312,11 @@ pub fn state_tables(
 }
 
 /// Every output file for the layout.
-pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, String> {
+pub fn bundle(
+    design: &Design,
+    analysis: &Analysis,
+    template: &TemplateSettings,
+) -> Result<Vec<OutputFile>, String> {
     let mut files = Vec::new();
     let mut push = |name: &str, bytes: Vec<u8>| {
         files.push(OutputFile {
@@ -359,8 +363,7 @@ pub fn bundle(design: &Design, analysis: &Analysis) -> Result<Vec<OutputFile>, S
         exhaust_markers_stl(design, &thrusts, &MarkerSettings::default(), &mesh)
             .map_err(|e| e.to_string())?,
     );
-    let pages =
-        drill_template_svg(design, &TemplateSettings::default()).map_err(|e| e.to_string())?;
+    let pages = drill_template_svg(design, template).map_err(|e| e.to_string())?;
     for (k, page) in pages.into_iter().enumerate() {
         push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
     }

@@ -82,6 +82,7 @@ fn run(cli: Cli) -> Result<()> {
             seed,
             max_evals,
             time_limit,
+            objective,
             plot,
             json,
         } => {
@@ -97,6 +98,7 @@ fn run(cli: Cli) -> Result<()> {
                 seed,
                 max_evals,
                 time_limit,
+                &objective,
                 json,
                 &stop,
             )?;

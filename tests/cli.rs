@@ -303,3 +303,32 @@ fn split_args(line: &str) -> Vec<String> {
     }
     out
 }
+
+#[test]
+fn optimize_matches_a_target_roll_to_pitch_ratio() {
+    let dir = tempfile::tempdir().unwrap();
+    let new = dir.path().join("ratio.toml");
+    run_ok(&[
+        "optimize",
+        "layouts/heron-54.toml",
+        "--out",
+        new.to_str().unwrap(),
+        "--objective",
+        "ratio:10",
+        "--max-evals",
+        "6000",
+    ]);
+    let v: serde_json::Value =
+        serde_json::from_str(&run_ok(&["analyze", new.to_str().unwrap(), "--json"])).unwrap();
+    // The objective is the smallest ratio over states; the start layout has about 19.
+    let ratio = v["states"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|s| s["roll_to_pitch_ratio"].as_f64().unwrap())
+        .fold(f64::INFINITY, f64::min);
+    assert!(
+        (ratio / 10.0).ln().abs() < 0.1,
+        "smallest roll-to-pitch ratio {ratio}, wanted 10"
+    );
+}

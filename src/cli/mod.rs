@@ -101,6 +101,10 @@ pub enum Command {
         /// Stop after this many seconds and keep the best so far.
         #[arg(long)]
         time_limit: Option<f64>,
+        /// What to maximise: margin (default), ratio:R, gas, side-force, or a weighted mix
+        /// such as "margin=1,ratio:4=0.2" (formulas in the README).
+        #[arg(long, default_value = "margin")]
+        objective: String,
         /// Write the convergence plot (SVG) here.
         #[arg(long)]
         plot: Option<PathBuf>,

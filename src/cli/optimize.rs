@@ -2,7 +2,7 @@
 
 use anyhow::{anyhow, bail, Result};
 use indicatif::{ProgressBar, ProgressStyle};
-use portwright::analysis::score::MarginScore;
+use portwright::analysis::score::{MarginScore, Objective};
 use portwright::analysis::{self, Analysis};
 use portwright::export::plots::{best_so_far, convergence_svg, Convergence, PlotSettings, Sense};
 use portwright::layout;
@@ -32,15 +32,18 @@ fn worst(a: &Analysis) -> f64 {
 }
 
 /// Run the search and build the before/after report.
+#[allow(clippy::too_many_arguments)]
 pub fn run(
     text: &str,
     source: &str,
     seed: u64,
     max_evals: usize,
     time_limit: Option<f64>,
+    objective: &str,
     json: bool,
     stop: &AtomicBool,
 ) -> Result<Optimised> {
+    let objective = Objective::parse(objective).map_err(|e| anyhow!("--objective: {e}"))?;
     let design = layout::parse_str(text, source)?;
     let (freedoms, limits) = sections_from_str(text).map_err(|e| anyhow!("{source}: {e}"))?;
     let rules = limits;
@@ -55,7 +58,7 @@ pub fn run(
         .collect();
     sizes.sort_by(f64::total_cmp);
     sizes.dedup();
-    let scorer = MarginScore::new(&design, &before, &sizes)?;
+    let scorer = MarginScore::new(&design, &before, &sizes)?.with_objective(objective);
     let settings = SearchSettings {
         seed,
         max_evaluations: max_evals,
@@ -108,7 +111,7 @@ pub fn run(
         convergence_svg(
             &Convergence {
                 layout: design.name.clone(),
-                score_label: "worst authority margin".to_string(),
+                score_label: "objective".to_string(),
                 best,
             },
             &PlotSettings::default(),

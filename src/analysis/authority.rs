@@ -70,20 +70,6 @@ pub fn axis_authority(
     })
 }
 
-/// Per-axis sums of each port's positive (and negative) contribution: the most
-/// each sense could get if every helpful port fired and the others stayed shut.
-pub fn simple_sums(torques: &[Vector3<f64>]) -> (Vector3<f64>, Vector3<f64>) {
-    let mut pos = Vector3::zeros();
-    let mut neg = Vector3::zeros();
-    for t in torques {
-        for k in 0..3 {
-            pos[k] += t[k].max(0.0);
-            neg[k] += (-t[k]).max(0.0);
-        }
-    }
-    (pos, neg)
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -104,12 +90,5 @@ mod tests {
         assert_eq!(a[1].margin, 0.4 / 0.2);
         assert!(a[2].margin.is_infinite());
         assert_eq!(a[0].angular_accel_rad_s2, 60.0);
-    }
-
-    #[test]
-    fn sums_split_by_sign() {
-        let (p, n) = simple_sums(&[Vector3::new(1.0, -2.0, 0.0), Vector3::new(-1.0, 3.0, 0.5)]);
-        assert_eq!(p, Vector3::new(1.0, 3.0, 0.5));
-        assert_eq!(n, Vector3::new(1.0, 2.0, 0.0));
     }
 }

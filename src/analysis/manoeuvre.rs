@@ -12,7 +12,7 @@
 //! angular impulse along a direction is the least gas rate for a small torque
 //! along that direction divided by the torque.
 
-use super::{Analysis, StateReport};
+use super::{GasBudget, StateReport};
 use crate::allocation::mingas::{MinGasAllocator, SideForceLimit};
 use crate::allocation::Tolerances;
 use crate::model::{Design, Manoeuvre, ManoeuvreKind};
@@ -52,10 +52,10 @@ pub struct ManoeuvrePlan {
     pub fits: bool,
 }
 
-fn state_for<'a>(analysis: &'a Analysis, name: &Option<String>) -> Option<&'a StateReport> {
+fn state_for<'a>(states: &'a [StateReport], name: &Option<String>) -> Option<&'a StateReport> {
     match name {
-        Some(n) => analysis.states.iter().find(|s| &s.name == n),
-        None => analysis.states.last(),
+        Some(n) => states.iter().find(|s| &s.name == n),
+        None => states.last(),
     }
 }
 
@@ -84,13 +84,17 @@ fn gas_per_impulse(design: &Design, st: &StateReport, dir: &Vector3<f64>) -> Res
 }
 
 /// Budget the design's manoeuvre list.
-pub fn plan(design: &Design, analysis: &Analysis) -> Result<Option<ManoeuvrePlan>, String> {
+pub fn plan(
+    design: &Design,
+    gas: &GasBudget,
+    states: &[StateReport],
+) -> Result<Option<ManoeuvrePlan>, String> {
     if design.manoeuvres.is_empty() {
         return Ok(None);
     }
     let mut items = Vec::new();
     for m in &design.manoeuvres {
-        let st = state_for(analysis, &m.state)
+        let st = state_for(states, &m.state)
             .ok_or_else(|| format!("manoeuvre `{}`: no flight state {:?}", m.name, m.state))?;
         let inertia = st.mass.inertia_diagonal();
         let (axis, sign, impulse) = impulse(m, st, inertia);
@@ -115,7 +119,7 @@ pub fn plan(design: &Design, analysis: &Analysis) -> Result<Option<ManoeuvrePlan
     }
     let total: f64 = items.iter().map(|i| i.gas_kg).sum();
     let reserve = design.requirements.gas_reserve;
-    let available = analysis.gas.usable_adiabatic_kg * (1.0 - reserve);
+    let available = gas.usable_adiabatic_kg * (1.0 - reserve);
     Ok(Some(ManoeuvrePlan {
         items,
         total_gas_kg: total,

@@ -299,17 +299,7 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     let mut assumptions = design.readings.clone();
     assumptions.extend(feed::assumptions(design, &budget));
     let mut findings = findings::findings(design, &budget, &states);
-    let mut partial = Analysis {
-        layout: design.name.clone(),
-        assumptions: Vec::new(),
-        gas: budget.clone(),
-        states: states.clone(),
-        manoeuvres: None,
-        findings: Vec::new(),
-        cautions: Vec::new(),
-    };
-    let manoeuvres = manoeuvre::plan(design, &partial).map_err(AnalysisError::Gas)?;
-    partial.states.clear();
+    let manoeuvres = manoeuvre::plan(design, &budget, &states).map_err(AnalysisError::Gas)?;
     if let Some(p) = &manoeuvres {
         findings.push(if p.fits {
             format!(

@@ -24,6 +24,12 @@ pub trait LayoutScore: Sync {
     fn scratch(&self) -> Self::Scratch;
     /// Merit of the ports (all of the design's ports, in the design's order).
     fn score(&self, ports: &[Port], scratch: &mut Self::Scratch) -> f64;
+    /// Score of ports that meet every geometric rule. The default is a feasible
+    /// [`score`](Self::score); a merit with rules of its own (for example a floor on
+    /// an earlier objective) returns [`Score::infeasible`] with its own shortfall.
+    fn rate(&self, ports: &[Port], scratch: &mut Self::Scratch) -> Score {
+        Score::feasible(self.score(ports, scratch))
+    }
 }
 
 /// Working storage of one worker: a copy of the ports to write points into, and
@@ -131,7 +137,7 @@ impl<S: LayoutScore> Objective for LayoutProblem<S> {
         if penalty > 0.0 {
             Score::infeasible(penalty)
         } else {
-            Score::feasible(self.scorer.score(&scratch.ports, &mut scratch.inner))
+            self.scorer.rate(&scratch.ports, &mut scratch.inner)
         }
     }
 }

@@ -83,6 +83,8 @@ fn run(cli: Cli) -> Result<()> {
             max_evals,
             time_limit,
             objective,
+            then_within,
+            side_force,
             plot,
             json,
         } => {
@@ -92,16 +94,16 @@ fn run(cli: Cli) -> Result<()> {
             let flag = stop.clone();
             // Ctrl-C asks the search to stop; the best layout so far is still written.
             let _ = ctrlc::set_handler(move || flag.store(true, Ordering::SeqCst));
-            let result = cli::optimize::run(
-                &text,
-                &layout.display().to_string(),
+            let options = cli::optimize::Options {
                 seed,
                 max_evals,
                 time_limit,
-                &objective,
+                objective,
+                then_within,
+                side_force,
                 json,
-                &stop,
-            )?;
+            };
+            let result = cli::optimize::run(&text, &layout.display().to_string(), &options, &stop)?;
             let target = if in_place {
                 layout.clone()
             } else {

@@ -332,3 +332,127 @@ fn optimize_matches_a_target_roll_to_pitch_ratio() {
         "smallest roll-to-pitch ratio {ratio}, wanted 10"
     );
 }
+
+/// The Heron demo with an `[optimize]` section and a side-force limit added.
+fn heron_with(extra_limits: &str, optimize: &str) -> String {
+    let text = std::fs::read_to_string("layouts/heron-54.toml").unwrap();
+    let text = text.replace(
+        "max_cant = \"60 deg\"",
+        &format!("max_cant = \"60 deg\"\n{extra_limits}"),
+    );
+    format!("{text}\n[optimize]\n{optimize}\n")
+}
+
+#[test]
+fn optimize_reads_its_settings_from_the_layout() {
+    let dir = tempfile::tempdir().unwrap();
+    let layout = dir.path().join("heron.toml");
+    std::fs::write(
+        &layout,
+        heron_with(
+            "side_force = \"0.4 N\"",
+            "objective = \"margin then gas\"\nthen_within = 0.02\nmax_evals = 4000\nseed = 3",
+        ),
+    )
+    .unwrap();
+    let new = dir.path().join("new.toml");
+    let run = || {
+        run_ok(&[
+            "optimize",
+            layout.to_str().unwrap(),
+            "--out",
+            new.to_str().unwrap(),
+            "--json",
+        ])
+    };
+    let v: serde_json::Value = serde_json::from_str(&run()).unwrap();
+    assert_eq!(v["objective"], "margin then gas");
+    assert_eq!(v["side_force_limit_n"].as_f64(), Some(0.4));
+    let stages = v["stages"].as_array().unwrap();
+    assert_eq!(stages.len(), 2);
+    assert!(v["evaluations"].as_u64().unwrap() <= 4000);
+    // The second stage keeps the margin within 2 % of the first stage's best.
+    let first_best = stages[0]["best"].as_f64().unwrap();
+    let margin_after = v["after"]["objective"][0].as_f64().unwrap();
+    assert!(
+        margin_after >= first_best - 0.02 * first_best.abs() - 1e-9,
+        "{margin_after} vs {first_best}"
+    );
+    // The second stage's best is the gas term of the layout as written and read
+    // back (a fresh analysis of the new file), to rounding.
+    let gas_after = v["after"]["objective"][1].as_f64().unwrap();
+    let gas_best = stages[1]["best"].as_f64().unwrap();
+    assert!(
+        (gas_after - gas_best).abs() <= 1e-9 * gas_best.abs(),
+        "{gas_after} vs {gas_best}"
+    );
+    assert!(
+        v["after"]["worst_margin"].as_f64().unwrap()
+            >= v["before"]["worst_margin"].as_f64().unwrap()
+    );
+    // Every allocation for a required torque keeps the side force within the limit.
+    for s in v["after"]["states"].as_array().unwrap() {
+        for f in s["side_force_at_required_n"].as_array().unwrap() {
+            if let Some(f) = f.as_f64() {
+                assert!(f <= 0.4 * (1.0 + 1e-9) * std::f64::consts::SQRT_2, "{f}");
+            }
+        }
+    }
+    // The command line overrides the file, and the same settings give the same answer.
+    let again: serde_json::Value = serde_json::from_str(&run()).unwrap();
+    assert_eq!(v["after"], again["after"]);
+    let text = run_ok(&[
+        "optimize",
+        layout.to_str().unwrap(),
+        "--out",
+        new.to_str().unwrap(),
+        "--objective",
+        "margin",
+        "--side-force",
+        "0 N",
+        "--max-evals",
+        "500",
+    ]);
+    assert!(text.contains("for `margin`"), "{text}");
+    assert!(text.contains("pure couples only"), "{text}");
+    assert!(text.contains("gas at required"), "{text}");
+    assert!(text.contains("side force per torque"), "{text}");
+}
+
+#[test]
+fn bad_optimizer_sections_name_file_line_column_and_field() {
+    let dir = tempfile::tempdir().unwrap();
+    for (limits, optimize, needle) in [
+        ("", "objective = \"speed\"", "optimize.objective"),
+        ("side_force = \"3 m\"", "", "limits.side_force"),
+        ("", "then_within = 2.0", "optimize.then_within"),
+        ("", "max_evals = 1", "optimize.max_evals"),
+    ] {
+        let layout = dir.path().join("bad.toml");
+        let text = heron_with(limits, optimize);
+        std::fs::write(&layout, &text).unwrap();
+        let out = portwright()
+            .args([
+                "optimize",
+                layout.to_str().unwrap(),
+                "--out",
+                dir.path().join("x.toml").to_str().unwrap(),
+            ])
+            .output()
+            .unwrap();
+        assert!(!out.status.success());
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert!(err.contains(needle), "{needle}: {err}");
+        // file:line:col: with the line of the offending value.
+        let key = needle.rsplit('.').next().unwrap();
+        let line = text
+            .lines()
+            .position(|l| l.starts_with(key))
+            .expect("the key is in the text")
+            + 1;
+        let place = format!("bad.toml:{line}:");
+        assert!(err.contains(&place), "{needle}: expected {place} in {err}");
+        assert!(!err.contains("panicked"), "{err}");
+        assert!(!dir.path().join("x.toml").exists());
+    }
+}

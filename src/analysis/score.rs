@@ -595,6 +595,13 @@ impl MarginScore {
             .collect()
     }
 
+    /// Value of one term for `ports`.
+    pub fn term_value(&self, term: Term, ports: &[Port]) -> f64 {
+        let mut w = self.new_scratch();
+        self.set_thrusts(ports, &mut w);
+        self.term(term, ports, &mut w)
+    }
+
     /// Merit of a set of ports (the design's ports, moved) at the current stage,
     /// ignoring the floors of earlier stages.
     pub fn merit(&self, ports: &[Port], w: &mut MeritScratch) -> f64 {

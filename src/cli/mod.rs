@@ -92,19 +92,30 @@ pub enum Command {
         /// Overwrite the input layout instead (atomically).
         #[arg(long)]
         in_place: bool,
-        /// Random seed: the same seed gives the same layout.
-        #[arg(long, default_value_t = 1)]
-        seed: u64,
-        /// Largest number of layout evaluations.
-        #[arg(long, default_value_t = 20_000)]
-        max_evals: usize,
+        /// Random seed: the same seed gives the same layout [default: the layout's
+        /// [optimize] seed, else 1].
+        #[arg(long)]
+        seed: Option<u64>,
+        /// Largest number of layout evaluations [default: the layout's
+        /// [optimize] max_evals, else 20000].
+        #[arg(long)]
+        max_evals: Option<usize>,
         /// Stop after this many seconds and keep the best so far.
         #[arg(long)]
         time_limit: Option<f64>,
-        /// What to maximise: margin (default), ratio:R, gas, side-force, or a weighted mix
-        /// such as "margin=1,ratio:4=0.2" (formulas in the README).
-        #[arg(long, default_value = "margin")]
-        objective: String,
+        /// What to maximise: margin, ratio:R, gas, side-force, a weighted mix such as
+        /// "margin=1,ratio:4=0.2", or an order such as "margin then gas" (formulas in
+        /// the README) [default: the layout's [optimize] objective, else margin].
+        #[arg(long)]
+        objective: Option<String>,
+        /// With "A then B": the fraction of A's best that B may give up [default: 0.01].
+        #[arg(long)]
+        then_within: Option<f64>,
+        /// Side-force limit on the allocations behind the objective, e.g. "0.5 N";
+        /// "0 N" allows pure couples only [default: the layout's [limits] side_force,
+        /// else none].
+        #[arg(long)]
+        side_force: Option<String>,
         /// Write the convergence plot (SVG) here.
         #[arg(long)]
         plot: Option<PathBuf>,

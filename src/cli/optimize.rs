@@ -1,17 +1,19 @@
-//! `portwright optimize`: move ports within their freedoms for the best worst-case margin.
+//! `portwright optimize`: move ports within their freedoms for the best objective
+//! (by default the worst authority margin over axes and flight states).
 
 use anyhow::{anyhow, bail, Result};
 use indicatif::{ProgressBar, ProgressStyle};
-use portwright::analysis::score::{MarginScore, Objective};
+use portwright::allocation::{AllocationStatus, MinGasAllocator, SideForceLimit, Tolerances};
+use portwright::analysis::score::{MarginScore, Objective, Term};
 use portwright::analysis::{self, Analysis};
 use portwright::export::plots::{best_so_far, convergence_svg, Convergence, PlotSettings, Sense};
 use portwright::layout;
 use portwright::model::Design;
 use portwright::optimize::constraints::{Constraints, Limits};
-use portwright::optimize::search::SearchSettings;
-use portwright::optimize::{optimize, sections_from_str};
+use portwright::optimize::search::{Outcome, SearchSettings};
+use portwright::optimize::{optimize, sections_from_str, SectionError, Sections};
 use std::fmt::Write;
-use std::sync::atomic::AtomicBool;
+use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Duration;
 
 /// What the command produced.
@@ -24,32 +26,176 @@ pub struct Optimised {
     pub plot_svg: Option<String>,
 }
 
-fn worst(a: &Analysis) -> f64 {
-    a.states
-        .iter()
-        .flat_map(|s| s.authority.iter().map(|x| x.margin))
-        .fold(f64::INFINITY, f64::min)
+/// Command-line settings; each one given overrides the layout's `[optimize]` or
+/// `[limits]` section.
+#[derive(Debug, Clone, Default)]
+pub struct Options {
+    /// Random seed.
+    pub seed: Option<u64>,
+    /// Largest number of evaluations in all.
+    pub max_evals: Option<usize>,
+    /// Wall-clock limit, s.
+    pub time_limit: Option<f64>,
+    /// Objective text.
+    pub objective: Option<String>,
+    /// Lexicographic tolerance.
+    pub then_within: Option<f64>,
+    /// Side-force limit text, e.g. "0.5 N" or "0 N".
+    pub side_force: Option<String>,
+    /// Print JSON instead of text.
+    pub json: bool,
+}
+
+/// `file:line:col: section.field: message`, or `file: section.field: message`
+/// when the place is unknown.
+fn in_file(source: &str, e: &SectionError) -> anyhow::Error {
+    if e.line == 0 {
+        anyhow!("{source}: {e}")
+    } else {
+        anyhow!("{source}:{e}")
+    }
+}
+
+/// What one layout achieves, as the report shows it.
+struct Summary {
+    states: Vec<StateSummary>,
+    /// Value of each stage of the objective.
+    objective: Vec<f64>,
+    /// Σ|F⊥| / Σ|τ| over the ports at the first state, 1/m.
+    side_per_torque: f64,
+}
+
+struct StateSummary {
+    name: String,
+    /// Worst-sense authority under the side-force rule, N·m.
+    authority: [f64; 3],
+    required: [f64; 3],
+    /// Authority over requirement (infinite when nothing is required).
+    margin: [f64; 3],
+    /// Least gas for the required torque about each axis, the dearer sense, kg/s.
+    gas_kg_s: [Option<f64>; 3],
+    /// Largest side force of those allocations, N.
+    side_n: [Option<f64>; 3],
+    /// Whether the required torque is out of reach in some sense.
+    saturated: [bool; 3],
+    /// Guaranteed torque, N·m.
+    guaranteed_n_m: f64,
+    /// All ports open, kg/s.
+    gas_all_open_kg_s: f64,
+}
+
+impl Summary {
+    fn worst_margin(&self) -> f64 {
+        self.states
+            .iter()
+            .flat_map(|s| s.margin)
+            .fold(f64::INFINITY, f64::min)
+    }
+}
+
+fn summarize(
+    design: &Design,
+    a: &Analysis,
+    objective: &Objective,
+    side: SideForceLimit,
+) -> Result<Summary> {
+    let score = MarginScore::new(design, a, &[])?
+        .with_objective(objective.clone())
+        .with_side_force(side);
+    let authority = score.authority(&design.ports);
+    let guaranteed = score.guaranteed(&design.ports);
+    let mut states = Vec::new();
+    for ((s, auth), g) in a.states.iter().zip(authority).zip(guaranteed) {
+        let required = s.required.total_n_m();
+        let e = analysis::effectiveness(design, &s.mass, &s.ports)
+            .map_err(|m| anyhow!("state `{}`: {m}", s.name))?;
+        let mut alloc = MinGasAllocator::new(&e, side, &Tolerances::default())?;
+        let mut gas = [None; 3];
+        let mut side_n = [None; 3];
+        let mut saturated = [false; 3];
+        let mut margin = [f64::INFINITY; 3];
+        for k in 0..3 {
+            if required[k] <= 0.0 {
+                continue;
+            }
+            margin[k] = auth[k] / required[k];
+            for sense in [1.0, -1.0] {
+                let mut tau = nalgebra::Vector3::zeros();
+                tau[k] = sense * required[k];
+                let r = alloc.allocate(&tau)?;
+                gas[k] = Some(gas[k].unwrap_or(0.0f64).max(r.gas_rate_kg_s));
+                side_n[k] = Some(side_n[k].unwrap_or(0.0f64).max(r.force.y.hypot(r.force.z)));
+                saturated[k] |= r.status == AllocationStatus::Saturated;
+            }
+        }
+        states.push(StateSummary {
+            name: s.name.clone(),
+            authority: auth,
+            required,
+            margin,
+            gas_kg_s: gas,
+            side_n,
+            saturated,
+            guaranteed_n_m: g,
+            gas_all_open_kg_s: s.ports.iter().map(|p| p.mass_flow_kg_s).sum(),
+        });
+    }
+    Ok(Summary {
+        states,
+        objective: score.stage_values(&design.ports),
+        side_per_torque: -score.term_value(Term::SideForcePerTorque, &design.ports),
+    })
+}
+
+fn side_rule(limit_n: Option<f64>) -> SideForceLimit {
+    match limit_n {
+        None => SideForceLimit::Free,
+        Some(0.0) => SideForceLimit::PureCouple,
+        Some(v) => SideForceLimit::Bounded { limit_n: v },
+    }
 }
 
 /// Run the search and build the before/after report.
-#[allow(clippy::too_many_arguments)]
-pub fn run(
-    text: &str,
-    source: &str,
-    seed: u64,
-    max_evals: usize,
-    time_limit: Option<f64>,
-    objective: &str,
-    json: bool,
-    stop: &AtomicBool,
-) -> Result<Optimised> {
-    let objective = Objective::parse(objective).map_err(|e| anyhow!("--objective: {e}"))?;
+pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Result<Optimised> {
     let design = layout::parse_str(text, source)?;
-    let (freedoms, limits) = sections_from_str(text).map_err(|e| anyhow!("{source}: {e}"))?;
-    let rules = limits;
+    let Sections {
+        freedoms,
+        limits,
+        plan,
+    } = sections_from_str(text).map_err(|e| in_file(source, &e))?;
     if freedoms.is_empty() {
         bail!("{source}: no [[freedom]] sections: say which ports may move and how far (see the README)");
     }
+    let objective = match (&opts.objective, &plan.objective) {
+        (Some(t), _) => Objective::parse(t).map_err(|e| anyhow!("--objective: {e}"))?,
+        (None, Some(t)) => Objective::parse(t).map_err(|e| {
+            in_file(
+                source,
+                &SectionError::new("optimize", "objective", e).located(text),
+            )
+        })?,
+        (None, None) => Objective::default(),
+    };
+    let objective = match (opts.then_within, plan.then_within) {
+        (Some(f), _) => objective
+            .with_then_within(f)
+            .map_err(|e| anyhow!("--then-within: {e}"))?,
+        (None, Some(f)) => objective
+            .with_then_within(f)
+            .map_err(|e| anyhow!("{source}: optimize.then_within: {e}"))?,
+        (None, None) => objective,
+    };
+    let side = match &opts.side_force {
+        Some(t) => super::allocate::side_force(Some(t))?,
+        None => side_rule(limits.side_force_n),
+    };
+    let seed = opts.seed.or(plan.seed).unwrap_or(1);
+    let max_evals = opts.max_evals.or(plan.max_evaluations).unwrap_or(20_000);
+    if max_evals < 2 {
+        bail!("--max-evals: expected at least 2");
+    }
+    let time_limit = opts.time_limit.or(plan.time_limit_s);
+
     let before = analysis::analyze(&design)?;
     let mut sizes: Vec<f64> = freedoms
         .iter()
@@ -58,84 +204,124 @@ pub fn run(
         .collect();
     sizes.sort_by(f64::total_cmp);
     sizes.dedup();
-    let scorer = MarginScore::new(&design, &before, &sizes)?.with_objective(objective);
-    let settings = SearchSettings {
-        seed,
-        max_evaluations: max_evals,
-        time_limit: time_limit.map(Duration::from_secs_f64),
-        ..SearchSettings::default()
-    };
+    let base = MarginScore::new(&design, &before, &sizes)?
+        .with_objective(objective.clone())
+        .with_side_force(side);
+
+    // One search per stage of the objective; later stages start from the earlier
+    // answer and keep the earlier stages within `then_within` of their best.
+    let stages = objective.stages.len();
     let bar = ProgressBar::new(max_evals as u64);
     bar.set_style(
         ProgressStyle::with_template("{bar:40} {pos}/{len} evaluations  {msg}")
             .unwrap_or_else(|_| ProgressStyle::default_bar()),
     );
-    let mut progress = |p: &portwright::optimize::search::Progress| {
-        bar.set_position(p.evaluations as u64);
-        let best = if p.best.is_feasible() {
-            format!("worst margin {:.3}", p.best.merit)
+    let mut current = design.clone();
+    let mut floors = Vec::new();
+    let mut outcomes: Vec<Outcome> = Vec::new();
+    let mut done = 0usize;
+    for k in 0..stages {
+        let budget = if k + 1 == stages {
+            max_evals - done
         } else {
-            "no feasible layout yet".to_string()
+            (max_evals / stages).max(2)
         };
-        bar.set_message(format!(
-            "{best}, {:.0} evaluations/s",
-            p.evaluations_per_second
-        ));
-    };
-    let result = optimize(
-        &design,
-        &freedoms,
-        limits,
-        scorer,
-        &settings,
-        stop,
-        &mut progress,
-    )?;
+        let settings = SearchSettings {
+            seed: seed.wrapping_add(k as u64),
+            max_evaluations: budget.max(2),
+            time_limit: time_limit.map(|t| Duration::from_secs_f64(t / stages as f64)),
+            ..SearchSettings::default()
+        };
+        let label = if stages > 1 {
+            format!("stage {}/{stages} ", k + 1)
+        } else {
+            String::new()
+        };
+        let offset = done as u64;
+        let mut progress = |p: &portwright::optimize::search::Progress| {
+            bar.set_position(offset + p.evaluations as u64);
+            let best = if p.best.is_feasible() {
+                format!("{label}best objective {:.4}", p.best.merit)
+            } else {
+                format!("{label}no feasible layout yet")
+            };
+            bar.set_message(format!(
+                "{best}, {:.0} evaluations/s",
+                p.evaluations_per_second
+            ));
+        };
+        let result = optimize(
+            &current,
+            &freedoms,
+            limits,
+            base.for_stage(k, &floors),
+            &settings,
+            stop,
+            &mut progress,
+        )?;
+        done += result.outcome.evaluations;
+        floors.push(base.floor(base.stage_values(&result.design.ports)[k]));
+        current = result.design;
+        outcomes.push(result.outcome);
+        if stop.load(Ordering::SeqCst) {
+            break;
+        }
+    }
     bar.finish_and_clear();
-    let new_text = layout::write::with_ports(text, &result.design.ports)?;
+
+    let new_text = layout::write::with_ports(text, &current.ports)?;
     // The written layout must read back and analyse like any other.
     let reread = layout::parse_str(&new_text, source)?;
     let after = analysis::analyze(&reread)?;
-    let history: Vec<(f64, f64)> = result
-        .outcome
-        .history
-        .iter()
-        .map(|h| (h.evaluations as f64, h.best.merit))
-        .collect();
-    let plot_svg = if history.len() >= 2 {
-        let scores: Vec<f64> = history.iter().map(|h| h.1).collect();
-        let mut best = best_so_far(&scores, Sense::Maximise);
-        for (b, h) in best.iter_mut().zip(&history) {
-            b.0 = h.0;
-        }
-        convergence_svg(
-            &Convergence {
-                layout: design.name.clone(),
-                score_label: "objective".to_string(),
-                best,
-            },
-            &PlotSettings::default(),
-        )
-        .ok()
-        .map(|p| p.svg)
-    } else {
-        None
-    };
-    let active = active_constraints(&reread, rules);
+    let plot_svg = plot(&design, &objective, &outcomes[0]);
+    let active = active_constraints(&reread, limits);
+    let b = summarize(&design, &before, &objective, side)?;
+    let a = summarize(&reread, &after, &objective, side)?;
     let report = report(
         &design,
         &reread,
-        &before,
-        &after,
-        &result.outcome,
+        (&b, &a),
+        (&objective, side),
+        &outcomes,
         &active,
-        json,
+        opts.json,
     )?;
     Ok(Optimised {
         layout_text: new_text,
         report,
         plot_svg,
     })
+}
+
+/// Best objective against evaluations for the first (most important) stage.
+fn plot(design: &Design, objective: &Objective, outcome: &Outcome) -> Option<String> {
+    let history: Vec<(f64, f64)> = outcome
+        .history
+        .iter()
+        .map(|h| (h.evaluations as f64, h.best.merit))
+        .collect();
+    if history.len() < 2 {
+        return None;
+    }
+    let scores: Vec<f64> = history.iter().map(|h| h.1).collect();
+    let mut best = best_so_far(&scores, Sense::Maximise);
+    for (b, h) in best.iter_mut().zip(&history) {
+        b.0 = h.0;
+    }
+    let first = Objective {
+        stages: objective.stages[..1].to_vec(),
+        ..objective.clone()
+    };
+    convergence_svg(
+        &Convergence {
+            layout: design.name.clone(),
+            score_label: format!("objective ({first})"),
+            best,
+        },
+        &PlotSettings::default(),
+    )
+    .ok()
+    .map(|p| p.svg)
 }
 
 /// Rules that hold the optimum in place: those the layout would break if each
@@ -160,104 +346,228 @@ fn active_constraints(design: &Design, limits: Limits) -> Vec<String> {
     }
 }
 
-#[allow(clippy::too_many_arguments)]
+fn side_text(side: SideForceLimit) -> String {
+    match side {
+        SideForceLimit::Free => "none".to_string(),
+        SideForceLimit::PureCouple => "pure couples only (0 N)".to_string(),
+        SideForceLimit::Bounded { limit_n } => format!("{limit_n} N on each lateral axis"),
+    }
+}
+
+fn summary_json(s: &Summary) -> serde_json::Value {
+    let finite = |v: f64| if v.is_finite() { Some(v) } else { None };
+    serde_json::json!({
+        "objective": s.objective,
+        "worst_margin": finite(s.worst_margin()),
+        "side_force_per_torque_per_m": s.side_per_torque,
+        "states": s.states.iter().map(|st| serde_json::json!({
+            "state": st.name,
+            "authority_n_m": st.authority,
+            "required_n_m": st.required,
+            "margin": st.margin.map(finite),
+            "gas_at_required_kg_s": st.gas_kg_s,
+            "side_force_at_required_n": st.side_n,
+            "required_out_of_reach": st.saturated,
+            "guaranteed_torque_n_m": st.guaranteed_n_m,
+            "gas_all_open_kg_s": st.gas_all_open_kg_s,
+            "gas_per_guaranteed_torque_kg_s_per_n_m": if st.guaranteed_n_m > 0.0 { Some(st.gas_all_open_kg_s / st.guaranteed_n_m) } else { None },
+        })).collect::<Vec<_>>(),
+    })
+}
+
+fn moved(a: &portwright::model::Port, b: &portwright::model::Port) -> bool {
+    a.station_m != b.station_m
+        || a.clock_rad != b.clock_rad
+        || a.tangential_cant_rad != b.tangential_cant_rad
+        || a.axial_cant_rad != b.axial_cant_rad
+        || a.nozzle != b.nozzle
+}
+
 fn report(
     design: &Design,
     new: &Design,
-    before: &Analysis,
-    after: &Analysis,
-    outcome: &portwright::optimize::search::Outcome,
+    (before, after): (&Summary, &Summary),
+    (objective, side): (&Objective, SideForceLimit),
+    outcomes: &[Outcome],
     active: &[String],
     json: bool,
 ) -> Result<String> {
-    let moved: Vec<serde_json::Value> = design
-        .ports
-        .iter()
-        .zip(&new.ports)
-        .filter(|(a, b)| a.station_m != b.station_m || a.clock_rad != b.clock_rad || a.tangential_cant_rad != b.tangential_cant_rad || a.axial_cant_rad != b.axial_cant_rad || a.nozzle != b.nozzle)
-        .map(|(a, b)| {
-            serde_json::json!({
-                "port": a.name,
-                "station_change_m": b.station_m - a.station_m,
-                "clock_change_rad": portwright::airframe::placement::wrap_angle(b.clock_rad - a.clock_rad),
-                "tangential_cant_change_rad": b.tangential_cant_rad - a.tangential_cant_rad,
-                "axial_cant_change_rad": b.axial_cant_rad - a.axial_cant_rad,
-                "hole_before_m": a.nozzle.hole_diameter_m(),
-                "hole_after_m": b.nozzle.hole_diameter_m(),
-            })
-        })
-        .collect();
-    let margins = |a: &Analysis| -> Vec<serde_json::Value> {
-        a.states
+    let wrap = portwright::airframe::placement::wrap_angle;
+    let evaluations: usize = outcomes.iter().map(|o| o.evaluations).sum();
+    let elapsed: f64 = outcomes.iter().map(|o| o.elapsed.as_secs_f64()).sum();
+    if json {
+        let moved: Vec<serde_json::Value> = design
+            .ports
             .iter()
-            .map(|s| {
+            .zip(&new.ports)
+            .filter(|(a, b)| moved(a, b))
+            .map(|(a, b)| {
                 serde_json::json!({
-                    "state": s.name,
-                    "margin": s.authority.iter().map(|x| x.margin).collect::<Vec<_>>(),
-                    "angular_accel_rad_s2": s.authority.iter().map(|x| x.angular_accel_rad_s2).collect::<Vec<_>>(),
-                    "gas_all_open_kg_s": s.ports.iter().map(|p| p.mass_flow_kg_s).sum::<f64>(),
+                    "port": a.name,
+                    "station_change_m": b.station_m - a.station_m,
+                    "clock_change_rad": wrap(b.clock_rad - a.clock_rad),
+                    "tangential_cant_change_rad": b.tangential_cant_rad - a.tangential_cant_rad,
+                    "axial_cant_change_rad": b.axial_cant_rad - a.axial_cant_rad,
+                    "hole_before_m": a.nozzle.hole_diameter_m(),
+                    "hole_after_m": b.nozzle.hole_diameter_m(),
                 })
             })
-            .collect()
-    };
-    if json {
+            .collect();
+        let side_json = match side {
+            SideForceLimit::Free => serde_json::Value::Null,
+            SideForceLimit::PureCouple => serde_json::json!(0.0),
+            SideForceLimit::Bounded { limit_n } => serde_json::json!(limit_n),
+        };
         let v = serde_json::json!({
             "layout": design.name,
-            "worst_margin_before": worst(before),
-            "worst_margin_after": worst(after),
-            "evaluations": outcome.evaluations,
-            "stop": format!("{:?}", outcome.stop),
-            "elapsed_s": outcome.elapsed.as_secs_f64(),
-            "before": margins(before),
-            "after": margins(after),
+            "objective": objective.to_string(),
+            "side_force_limit_n": side_json,
+            "worst_margin_before": before.worst_margin(),
+            "worst_margin_after": after.worst_margin(),
+            "evaluations": evaluations,
+            "stages": outcomes.iter().map(|o| serde_json::json!({
+                "evaluations": o.evaluations,
+                "stop": format!("{:?}", o.stop),
+                "elapsed_s": o.elapsed.as_secs_f64(),
+                "best": o.score.merit,
+            })).collect::<Vec<_>>(),
+            "elapsed_s": elapsed,
+            "before": summary_json(before),
+            "after": summary_json(after),
             "moved": moved,
             "active_constraints": active,
         });
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
     let mut s = String::new();
+    let stops: Vec<String> = outcomes.iter().map(|o| format!("{:?}", o.stop)).collect();
     let _ = writeln!(
         s,
-        "optimised {}: worst margin {:.3} -> {:.3} ({} evaluations, {:.1} s, stopped: {:?})",
+        "optimised {} for `{objective}`: worst margin {:.3} -> {:.3}",
         design.name,
-        worst(before),
-        worst(after),
-        outcome.evaluations,
-        outcome.elapsed.as_secs_f64(),
-        outcome.stop
+        before.worst_margin(),
+        after.worst_margin(),
     );
-    let _ = writeln!(s, "margin per axis (roll, pitch, yaw), before -> after:");
+    let values = |v: &[f64]| {
+        v.iter()
+            .map(|x| format!("{x:.4}"))
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    let _ = writeln!(
+        s,
+        "  objective {} -> {}; {evaluations} evaluations, {elapsed:.1} s, stopped: {}",
+        values(&before.objective),
+        values(&after.objective),
+        stops.join(", ")
+    );
+    let _ = writeln!(
+        s,
+        "  side-force limit on the allocations: {}",
+        side_text(side)
+    );
+    let _ = writeln!(
+        s,
+        "per flight state and axis, before -> after (weaker sense):"
+    );
+    let _ = writeln!(
+        s,
+        "  {:<10} {:<5} {:>21}  {:>14}  {:>23}  {:>16}",
+        "state", "axis", "authority N·m", "margin", "gas at required g/s", "side force N"
+    );
+    let mut any_saturated = false;
     for (b, a) in before.states.iter().zip(&after.states) {
-        let f = |st: &analysis::StateReport| {
-            st.authority
-                .iter()
-                .map(|x| format!("{:.2}", x.margin))
-                .collect::<Vec<_>>()
-                .join(" ")
-        };
-        let _ = writeln!(s, "  {:<10} {}  ->  {}", b.name, f(b), f(a));
+        for (k, axis) in ["roll", "pitch", "yaw"].iter().enumerate() {
+            let margin = |st: &StateSummary| {
+                if st.margin[k].is_finite() {
+                    format!("{:.2}", st.margin[k])
+                } else {
+                    "-".to_string()
+                }
+            };
+            let gas = |st: &StateSummary| match st.gas_kg_s[k] {
+                Some(g) => format!("{:.3}{}", g * 1e3, if st.saturated[k] { "*" } else { "" }),
+                None => "-".to_string(),
+            };
+            let side = |st: &StateSummary| match st.side_n[k] {
+                Some(f) => format!("{f:.3}"),
+                None => "-".to_string(),
+            };
+            any_saturated |= b.saturated[k] || a.saturated[k];
+            let _ = writeln!(
+                s,
+                "  {:<10} {:<5} {:>21}  {:>14}  {:>23}  {:>16}",
+                b.name,
+                axis,
+                format!("{:.4} -> {:.4}", b.authority[k], a.authority[k]),
+                format!("{} -> {}", margin(b), margin(a)),
+                format!("{} -> {}", gas(b), gas(a)),
+                format!("{} -> {}", side(b), side(a)),
+            );
+        }
     }
+    if any_saturated {
+        let _ = writeln!(
+            s,
+            "  * the required torque is out of reach in some sense: gas shown for the largest part attainable"
+        );
+    }
+    let _ = writeln!(
+        s,
+        "guaranteed torque (any direction) and gas per guaranteed torque, all ports open:"
+    );
+    for (b, a) in before.states.iter().zip(&after.states) {
+        let per = |st: &StateSummary| {
+            if st.guaranteed_n_m > 0.0 {
+                format!("{:.1}", st.gas_all_open_kg_s * 1e3 / st.guaranteed_n_m)
+            } else {
+                "-".to_string()
+            }
+        };
+        let _ = writeln!(
+            s,
+            "  {:<10} {:.4} -> {:.4} N·m    {} -> {} g/s per N·m",
+            b.name,
+            b.guaranteed_n_m,
+            a.guaranteed_n_m,
+            per(b),
+            per(a)
+        );
+    }
+    if !matches!(side, SideForceLimit::Free) {
+        let _ = writeln!(
+            s,
+            "  (under the side-force limit the guaranteed torque is the least ray limit over 32 directions, an upper bound)"
+        );
+    }
+    let _ = writeln!(
+        s,
+        "side force per torque over the ports at {} (sum |F lateral| / sum |torque|): {:.2} -> {:.2} per m",
+        before.states.first().map_or("-", |s| s.name.as_str()),
+        before.side_per_torque,
+        after.side_per_torque
+    );
     let _ = writeln!(s, "ports moved:");
+    let mut any = false;
     for (a, b) in design.ports.iter().zip(&new.ports) {
-        if a.station_m == b.station_m
-            && a.clock_rad == b.clock_rad
-            && a.tangential_cant_rad == b.tangential_cant_rad
-            && a.axial_cant_rad == b.axial_cant_rad
-            && a.nozzle == b.nozzle
-        {
+        if !moved(a, b) {
             continue;
         }
+        any = true;
         let _ = writeln!(
             s,
             "  {:<14} station {:+.1} mm, clock {:+.1} deg, tangential cant {:+.1} deg, axial cant {:+.1} deg, hole {:.2} -> {:.2} mm",
             a.name,
             (b.station_m - a.station_m) * 1e3,
-            portwright::airframe::placement::wrap_angle(b.clock_rad - a.clock_rad).to_degrees(),
+            wrap(b.clock_rad - a.clock_rad).to_degrees(),
             (b.tangential_cant_rad - a.tangential_cant_rad).to_degrees(),
             (b.axial_cant_rad - a.axial_cant_rad).to_degrees(),
             a.nozzle.hole_diameter_m() * 1e3,
             b.nozzle.hole_diameter_m() * 1e3
         );
+    }
+    if !any {
+        let _ = writeln!(s, "  none: the start is already the best found");
     }
     let _ = writeln!(
         s,

@@ -43,6 +43,9 @@ pub struct LayoutFile {
     /// The optimiser's rules; see `freedom`.
     #[serde(default)]
     pub limits: Option<toml::Value>,
+    /// How the optimiser searches; see `freedom`.
+    #[serde(default)]
+    pub optimize: Option<toml::Value>,
 }
 
 /// `[airframe]`.

@@ -69,6 +69,10 @@ pub struct Limits {
     pub max_total_cant_rad: f64,
     /// Half-angle of the exhaust cone used for plume clearance, rad. Default 15°.
     pub plume_half_angle_rad: f64,
+    /// Largest lateral force (|F_y| and |F_z| each) the allocations behind the
+    /// optimiser's merit may produce, N; `None` (the default) for no limit, 0 for
+    /// pure couples. Not a geometric rule: the merit applies it.
+    pub side_force_n: Option<f64>,
     /// What counts as rounding.
     pub tolerances: Tolerances,
 }
@@ -81,6 +85,7 @@ impl Default for Limits {
             edge_distance_diameters: 2.0,
             max_total_cant_rad: 60f64.to_radians(),
             plume_half_angle_rad: 15f64.to_radians(),
+            side_force_n: None,
             tolerances: Tolerances::default(),
         }
     }
@@ -117,6 +122,14 @@ impl Limits {
                 "expected an angle from 0 deg up to, not including, 90 deg",
             );
         }
+        if let Some(f) = self.side_force_n {
+            if !(f.is_finite() && f >= 0.0) {
+                return bad(
+                    "side_force",
+                    "expected a force of zero (pure couples) or more",
+                );
+            }
+        }
         Ok(())
     }
 }
@@ -135,6 +148,8 @@ pub struct LimitsFile {
     pub max_cant: Option<String>,
     /// Exhaust cone half-angle, an angle.
     pub plume_half_angle: Option<String>,
+    /// Side-force limit for the merit's allocations, a force.
+    pub side_force: Option<String>,
 }
 
 impl LimitsFile {
@@ -166,6 +181,14 @@ impl LimitsFile {
                 Kind::Angle,
                 d.plume_half_angle_rad,
             )?,
+            side_force_n: self
+                .side_force
+                .as_ref()
+                .map(|t| {
+                    units::parse(t, Kind::Force)
+                        .map_err(|e| SectionError::new("limits", "side_force", e.to_string()))
+                })
+                .transpose()?,
             tolerances: d.tolerances,
         };
         limits.validate()?;

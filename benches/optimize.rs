@@ -116,5 +116,80 @@ fn search_loop(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, constraints, search_loop);
+/// One layout evaluation with the real merit (worst margin over three flight
+/// states) at a spread of points, free and under side-force limits, and the whole
+/// demo optimisation.
+fn real_merit(c: &mut Criterion) {
+    use portwright::allocation::SideForceLimit;
+    use portwright::analysis::score::MarginScore;
+    let design = demo();
+    let analysis = portwright::analysis::analyze(&design).expect("demo analyses");
+    let mut g = c.benchmark_group("merit");
+    g.throughput(Throughput::Elements(1));
+    for (name, side) in [
+        ("no side-force limit", SideForceLimit::Free),
+        (
+            "side force within 0.5 N",
+            SideForceLimit::Bounded { limit_n: 0.5 },
+        ),
+        ("pure couples", SideForceLimit::PureCouple),
+    ] {
+        let scorer = MarginScore::new(&design, &analysis, &[])
+            .expect("scorer")
+            .with_side_force(side);
+        let problem =
+            LayoutProblem::new(&design, &freedoms(), Limits::default(), scorer).expect("problem");
+        // Feasible points spread through the cube, so warm starts see real changes.
+        let mut points = Vec::new();
+        let d = problem.dimension();
+        let mut scratch = problem.scratch();
+        let mut k = 0u64;
+        while points.len() < 64 && k < 100_000 {
+            k += 1;
+            let x: Vec<f64> = (0..d)
+                .map(|i| ((k * 2_654_435_761 + i as u64 * 40_503) % 1000) as f64 / 999.0)
+                .collect();
+            if problem.evaluate(&x, &mut scratch).is_feasible() {
+                points.push(x);
+            }
+        }
+        assert!(!points.is_empty(), "feasible points found");
+        let mut i = 0;
+        g.bench_function(
+            format!("evaluate, eight ports, three states, {name}"),
+            |b| {
+                b.iter(|| {
+                    i = (i + 1) % points.len();
+                    problem.evaluate(black_box(&points[i]), &mut scratch)
+                })
+            },
+        );
+    }
+    g.finish();
+
+    let mut g = c.benchmark_group("demo");
+    g.sample_size(10);
+    let stop = AtomicBool::new(false);
+    let text = include_str!("../layouts/heron-54.toml");
+    let sections = portwright::optimize::sections_from_str(text).expect("sections");
+    let settings = SearchSettings::default();
+    g.bench_function("optimize Heron 54, 20000 evaluations, worst margin", |b| {
+        b.iter(|| {
+            let scorer = MarginScore::new(&design, &analysis, &[]).expect("scorer");
+            portwright::optimize::optimize(
+                &design,
+                &sections.freedoms,
+                sections.limits,
+                scorer,
+                &settings,
+                &stop,
+                &mut |_| {},
+            )
+            .expect("optimises")
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(benches, constraints, search_loop, real_merit);
 criterion_main!(benches);

@@ -321,6 +321,39 @@ fn every_problem_is_listed_at_once() {
 }
 
 #[test]
+fn optimiser_sections_are_checked_by_every_reader() {
+    for (extra, needle) in [
+        (
+            "[[freedom]]\nports = [\"a\"]\nstation = [\"1 deg\", \"2 m\"]\n",
+            "freedom[0].station",
+        ),
+        ("[[freedom]]\nports = \"a\"\n", "freedom[0].ports"),
+        ("[limits]\nside_force = \"2 kg\"\n", "limits.side_force"),
+        ("[limits]\nmargn = \"2 mm\"\n", "margn"),
+        ("[optimize]\nseed = \"seven\"\n", "optimize.seed"),
+        ("[optimize]\nthen_within = -0.5\n", "optimize.then_within"),
+        ("[optimize]\ntime_limit = \"0 s\"\n", "optimize.time_limit"),
+    ] {
+        let t = format!("{BASE}\n{extra}");
+        let msg = error_of(&t);
+        assert!(msg.contains(needle), "{needle}: {msg}");
+        // The line is that of the offending key (or the header for a table-wide problem).
+        let key = needle.rsplit('.').next().unwrap();
+        let first = BASE.lines().count() + 1;
+        let line = t
+            .lines()
+            .enumerate()
+            .skip(first)
+            .find(|(_, l)| l.starts_with(key))
+            .map_or(0, |(k, _)| k + 1);
+        assert!(
+            msg.contains(&format!("bad.toml:{line}:")),
+            "{needle}: line {line}: {msg}"
+        );
+    }
+}
+
+#[test]
 fn bare_psi_is_read_as_gauge_and_said() {
     let t = with("set_pressure = \"150 psig\"", "set_pressure = \"150 psi\"");
     let d = parse_str(&t, "ok.toml").unwrap();

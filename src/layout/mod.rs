@@ -108,7 +108,31 @@ pub fn parse_str(text: &str, source_name: &str) -> Result<Design, LayoutError> {
             }],
         }
     })?;
-    convert::to_design(&raw, text).map_err(|problems| LayoutError::Invalid {
+    let design = convert::to_design(&raw, text);
+    // The optimiser's sections are checked here too, so every command rejects a
+    // bad one, not only `optimize`.
+    let sections = crate::optimize::sections_from_str(text)
+        .err()
+        .map(|e| Diagnostic {
+            line: e.line.max(1),
+            column: e.column.max(1),
+            field: if e.field.is_empty() {
+                e.section.clone()
+            } else {
+                format!("{}.{}", e.section, e.field)
+            },
+            message: e.message.clone(),
+        });
+    match (design, sections) {
+        (Ok(d), None) => Ok(d),
+        (Ok(_), Some(p)) => Err(vec![p]),
+        (Err(mut problems), extra) => {
+            problems.extend(extra);
+            problems.sort_by_key(|p| (p.line, p.column));
+            Err(problems)
+        }
+    }
+    .map_err(|problems| LayoutError::Invalid {
         source_name: source_name.to_string(),
         problems,
     })

@@ -221,21 +221,20 @@ pub struct Sections {
 /// [`Limits`] (defaults when `[limits]` is absent) and a [`SearchPlan`]. Errors
 /// carry the line and column of the offending value.
 pub fn sections_from_str(text: &str) -> Result<Sections, SectionError> {
+    let raw: RawSections = toml::from_str(text).map_err(|e| type_error(text, &e))?;
     let read = || -> Result<Sections, SectionError> {
-        let value: toml::Value = toml::from_str(text)
-            .map_err(|e| SectionError::new("layout", "", e.message().trim().to_string()))?;
-        let freedoms = match value.get("freedom") {
-            Some(v) => parse_freedoms(v)?,
-            None => Vec::new(),
+        let freedoms = raw
+            .freedom
+            .iter()
+            .enumerate()
+            .map(|(k, f)| f.to_freedom(&format!("freedom[{k}]")))
+            .collect::<Result<Vec<_>, _>>()?;
+        let limits = match &raw.limits {
+            Some(l) => l.to_limits()?,
+            None => Limits::default(),
         };
-        let limits = parse_limits(value.get("limits"))?;
-        let plan = match value.get("optimize") {
-            Some(v) => {
-                let raw: SearchFile = v.clone().try_into().map_err(|e: toml::de::Error| {
-                    SectionError::new("optimize", "", e.message().trim().to_string())
-                })?;
-                raw.to_plan()?
-            }
+        let plan = match &raw.optimize {
+            Some(o) => o.to_plan()?,
             None => SearchPlan::default(),
         };
         Ok(Sections {
@@ -245,6 +244,64 @@ pub fn sections_from_str(text: &str) -> Result<Sections, SectionError> {
         })
     };
     read().map_err(|e| e.located(text))
+}
+
+/// The optimiser's sections, typed, read straight from the text so that a wrong
+/// type or an unknown field comes back with its place. Other sections are left
+/// to the layout reader.
+#[derive(Debug, Deserialize)]
+struct RawSections {
+    #[serde(default)]
+    freedom: Vec<FreedomFile>,
+    limits: Option<LimitsFile>,
+    optimize: Option<SearchFile>,
+}
+
+/// A TOML or type error in one of the optimiser's sections, with the section
+/// (the nearest table header above the place) and the field (the key on that
+/// line) read back from the text.
+fn type_error(text: &str, e: &toml::de::Error) -> SectionError {
+    let message = e.message().trim().to_string();
+    let Some(span) = e.span() else {
+        return SectionError::new("layout", "", message);
+    };
+    let before = &text[..span.start.min(text.len())];
+    let line_text = before.rsplit('\n').next().unwrap_or("");
+    let rest_of_line = text[before.len()..].split('\n').next().unwrap_or("");
+    let whole_line = format!("{line_text}{rest_of_line}");
+    let field = whole_line
+        .split_once('=')
+        .map(|(k, _)| k.trim())
+        .filter(|k| {
+            !k.is_empty()
+                && k.chars()
+                    .all(|c| c.is_alphanumeric() || c == '_' || c == '-')
+        })
+        .unwrap_or("");
+    let mut count = 0usize;
+    let mut section = "layout".to_string();
+    for l in before.lines() {
+        let l = l.trim();
+        if let Some(name) = l.strip_prefix("[[").and_then(|r| r.split("]]").next()) {
+            let name = name.trim();
+            if name == "freedom" {
+                section = format!("freedom[{count}]");
+                count += 1;
+            } else {
+                section = name.to_string();
+            }
+        } else if let Some(name) = l.strip_prefix('[').and_then(|r| r.split(']').next()) {
+            section = name.trim().to_string();
+        }
+    }
+    let (line, column) = crate::layout::line_column(text, span.start);
+    SectionError {
+        section,
+        field: field.to_string(),
+        message,
+        line,
+        column,
+    }
 }
 
 #[cfg(test)]
@@ -389,7 +446,8 @@ max_cant = "50 deg"
         let e = sections_from_str("[optimize]\nthen_within = 1.5").unwrap_err();
         assert_eq!((e.field.as_str(), e.line), ("then_within", 2));
         let e = sections_from_str("[optimize]\nspeed = 1").unwrap_err();
-        assert_eq!((e.section.as_str(), e.line), ("optimize", 1));
+        // An unknown key is placed on its own line.
+        assert_eq!((e.section.as_str(), e.line), ("optimize", 2));
         let e = sections_from_str("[limits]\nside_force = \"-1 N\"").unwrap_err();
         assert_eq!(e.field, "side_force");
         assert_eq!(

@@ -340,7 +340,11 @@ fn heron_with(extra_limits: &str, optimize: &str) -> String {
         "max_cant = \"60 deg\"",
         &format!("max_cant = \"60 deg\"\n{extra_limits}"),
     );
-    format!("{text}\n[optimize]\n{optimize}\n")
+    // Replace the demo's own `[optimize]` section (the last in the file).
+    let cut = text
+        .find("\n[optimize]")
+        .expect("the demo has an [optimize] section");
+    format!("{}\n[optimize]\n{optimize}\n", &text[..cut])
 }
 
 #[test]

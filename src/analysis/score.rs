@@ -7,6 +7,12 @@
 //! exactly the cross products bᵢ × bⱼ of generator pairs (and their negatives), so
 //! the loop over pairs gives the exact ray limit; `allocation::zonotope` computes
 //! the same limit from its facet list, and the tests compare the two.
+//!
+//! Under a side-force limit the torque set is no longer a zonotope and every ray
+//! limit is a small LP ([`LimitedRays`], checked against microlp). Objectives other
+//! than the worst margin, weighted sums of them and lexicographic orders
+//! ("margin then gas") are in [`Objective`]; later stages keep earlier ones above
+//! a floor by reporting a shortfall as infeasibility.
 
 use crate::allocation::lp::fibonacci_directions;
 use crate::allocation::{LimitedRays, SideForceLimit};
@@ -64,36 +70,6 @@ pub fn ray_limit(columns: &[Vector3<f64>], e: &Vector3<f64>) -> f64 {
     } else {
         0.0
     }
-}
-
-/// Worst margin of `ports` over the states: min over states, axes and senses of
-/// (largest torque along that axis sense) / (required torque). `columns` is scratch.
-pub fn worst_margin(
-    design: &Design,
-    ports: &[Port],
-    states: &[StateInputs],
-    columns: &mut Vec<Vector3<f64>>,
-) -> f64 {
-    let radius = design.airframe.outer_radius_m();
-    let mut worst = f64::INFINITY;
-    for s in states {
-        columns.clear();
-        for (p, &t) in ports.iter().zip(&s.thrust_n) {
-            let f = p.thrust_direction() * t;
-            columns.push((p.position(radius) - s.cg).cross(&f));
-        }
-        for k in 0..3 {
-            if s.required_n_m[k] <= 0.0 {
-                continue;
-            }
-            let mut e = Vector3::zeros();
-            e[k] = 1.0;
-            let up = ray_limit(columns, &e);
-            let down = ray_limit(columns, &(-e));
-            worst = worst.min(up.min(down) / s.required_n_m[k]);
-        }
-    }
-    worst
 }
 
 /// One term of the optimiser's objective (higher is better for each).

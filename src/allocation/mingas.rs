@@ -39,6 +39,18 @@ pub enum SideForceLimit {
     PureCouple,
 }
 
+impl SideForceLimit {
+    /// The rule for a limit of `limit_n` newtons: `None` is no limit, 0 pure
+    /// couples, anything else a bound.
+    pub fn from_newtons(limit_n: Option<f64>) -> Self {
+        match limit_n {
+            None => SideForceLimit::Free,
+            Some(0.0) => SideForceLimit::PureCouple,
+            Some(v) => SideForceLimit::Bounded { limit_n: v },
+        }
+    }
+}
+
 /// How the command was met.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum AllocationStatus {
@@ -255,7 +267,8 @@ impl MinGasAllocator {
     }
 }
 
-fn positive_or_one(v: f64) -> f64 {
+/// `v` when it is a usable positive scale, else 1.
+pub(crate) fn positive_or_one(v: f64) -> f64 {
     if v > 0.0 && v.is_finite() {
         v
     } else {

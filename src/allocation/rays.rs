@@ -19,6 +19,7 @@
 //! basis, so scoring a layout allocates nothing. Rows are scaled to order one as
 //! in [`super::mingas`].
 
+use super::mingas::positive_or_one;
 use super::simplex::{BoundedSimplex, SimplexError, Start};
 use super::{SideForceLimit, Tolerances};
 use nalgebra::Vector3;
@@ -130,14 +131,6 @@ impl LimitedRays {
             Err(e) => Err(e),
         }?;
         Ok(self.lp.value(t).max(0.0) * self.torque_scale)
-    }
-}
-
-fn positive_or_one(v: f64) -> f64 {
-    if v > 0.0 && v.is_finite() {
-        v
-    } else {
-        1.0
     }
 }
 

@@ -148,8 +148,12 @@ impl Objective {
     /// Parse `margin`, `ratio:R`, `gas`, `side-force`, a weighted mix such as
     /// `margin=1,ratio:4=0.2`, or a lexicographic order such as `margin then gas`.
     pub fn parse(text: &str) -> Result<Self, String> {
+        let parts: Vec<&str> = text.split(" then ").collect();
+        if parts.len() > 1 && parts.iter().any(|p| p.trim().is_empty()) {
+            return Err("`then` needs an objective on each side".to_string());
+        }
         let mut stages = Vec::new();
-        for stage in text.split(" then ") {
+        for stage in parts {
             stages.push(Self::parse_stage(stage)?);
         }
         Ok(Self {
@@ -196,11 +200,7 @@ impl Objective {
             terms.push((term, weight));
         }
         if terms.is_empty() {
-            return Err(if text.trim().is_empty() && !text.is_empty() {
-                "`then` needs an objective on each side".to_string()
-            } else {
-                "no objective given".to_string()
-            });
+            return Err("no objective given".to_string());
         }
         Ok(terms)
     }

@@ -60,11 +60,7 @@ pub fn side_force(text: Option<&str>) -> Result<SideForceLimit> {
             if v < 0.0 {
                 bail!("--side-force: expected zero or more");
             }
-            if v == 0.0 {
-                SideForceLimit::PureCouple
-            } else {
-                SideForceLimit::Bounded { limit_n: v }
-            }
+            SideForceLimit::from_newtons(Some(v))
         }
     })
 }

@@ -147,14 +147,6 @@ fn summarize(
     })
 }
 
-fn side_rule(limit_n: Option<f64>) -> SideForceLimit {
-    match limit_n {
-        None => SideForceLimit::Free,
-        Some(0.0) => SideForceLimit::PureCouple,
-        Some(v) => SideForceLimit::Bounded { limit_n: v },
-    }
-}
-
 /// Run the search and build the before/after report.
 pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Result<Optimised> {
     let design = layout::parse_str(text, source)?;
@@ -187,7 +179,7 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
     };
     let side = match &opts.side_force {
         Some(t) => super::allocate::side_force(Some(t))?,
-        None => side_rule(limits.side_force_n),
+        None => SideForceLimit::from_newtons(limits.side_force_n),
     };
     let seed = opts.seed.or(plan.seed).unwrap_or(1);
     let max_evals = opts.max_evals.or(plan.max_evaluations).unwrap_or(20_000);

@@ -196,17 +196,6 @@ impl LimitsFile {
     }
 }
 
-/// Read the raw `limits` value kept by the layout reader (`None`: all defaults).
-pub fn parse_limits(value: Option<&toml::Value>) -> Result<Limits, SectionError> {
-    let Some(value) = value else {
-        return Ok(Limits::default());
-    };
-    let raw: LimitsFile = value.clone().try_into().map_err(|e: toml::de::Error| {
-        SectionError::new("limits", "", e.message().trim().to_string())
-    })?;
-    raw.to_limits()
-}
-
 /// Which rule a port breaks, with the numbers that show it.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Breach {
@@ -885,24 +874,22 @@ mod tests {
 
     #[test]
     fn limits_section_parses_and_names_bad_fields() {
-        let v: toml::Value = toml::from_str(
+        let read = crate::optimize::sections_from_str;
+        let l = read(
             r#"[limits]
             margin = "3 mm"
             spacing = 4.0
             max_cant = "45 deg"
             plume_half_angle = "10 deg""#,
         )
-        .unwrap();
-        let l = parse_limits(v.get("limits")).unwrap();
+        .unwrap()
+        .limits;
         assert_relative_eq!(l.margin_m, 3e-3, epsilon = 1e-15);
         assert_eq!(l.spacing_diameters, 4.0);
         assert_eq!(l.edge_distance_diameters, 2.0);
         assert_relative_eq!(l.max_total_cant_rad, 45f64.to_radians(), epsilon = 1e-12);
-        assert_eq!(parse_limits(None).unwrap(), Limits::default());
-        let field = |body: &str| {
-            let v: toml::Value = toml::from_str(&format!("[limits]\n{body}")).unwrap();
-            parse_limits(v.get("limits")).unwrap_err().field
-        };
+        assert_eq!(read("").unwrap().limits, Limits::default());
+        let field = |body: &str| read(&format!("[limits]\n{body}")).unwrap_err().field;
         assert_eq!(field(r#"margin = "3 kg""#), "margin");
         assert_eq!(field(r#"max_cant = "95 deg""#), "max_cant");
         assert_eq!(field("edge_distance = 0.2"), "edge_distance");

@@ -42,9 +42,7 @@ pub mod problem;
 pub mod search;
 pub mod variables;
 
-pub use constraints::{
-    parse_limits, Breach, Constraints, Limits, LimitsFile, Tolerances, Violation,
-};
+pub use constraints::{Breach, Constraints, Limits, LimitsFile, Tolerances, Violation};
 pub use problem::{
     optimize, LayoutProblem, LayoutResult, LayoutScore, LayoutScratch, OptimizeError,
 };
@@ -52,9 +50,7 @@ pub use search::{
     search, HistoryPoint, Objective, Outcome, Progress, Score, SearchError, SearchSettings, Stage,
     StopReason, Strategy,
 };
-pub use variables::{
-    parse_freedoms, DrillSeries, Freedom, FreedomFile, Span, Together, VariableError, Variables,
-};
+pub use variables::{DrillSeries, Freedom, FreedomFile, Span, Together, VariableError, Variables};
 
 use crate::units::{self, Kind};
 use serde::Deserialize;

@@ -643,28 +643,6 @@ impl FreedomFile {
     }
 }
 
-/// Read the raw `freedom` value kept by the layout reader: an array of tables.
-pub fn parse_freedoms(value: &toml::Value) -> Result<Vec<Freedom>, SectionError> {
-    let Some(items) = value.as_array() else {
-        return Err(SectionError::new(
-            "freedom",
-            "",
-            "expected an array of tables, written [[freedom]]",
-        ));
-    };
-    items
-        .iter()
-        .enumerate()
-        .map(|(k, item)| {
-            let section = format!("freedom[{k}]");
-            let raw: FreedomFile = item.clone().try_into().map_err(|e: toml::de::Error| {
-                SectionError::new(&section, "", e.message().trim().to_string())
-            })?;
-            raw.to_freedom(&section)
-        })
-        .collect()
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -833,8 +811,7 @@ mod tests {
             ports = ["yaw-neg"]
             drills = ["1.2 mm", "0.0625 in", "0.9 mm"]
         "#;
-        let value: toml::Value = toml::from_str(text).unwrap();
-        let f = parse_freedoms(value.get("freedom").unwrap()).unwrap();
+        let f = crate::optimize::sections_from_str(text).unwrap().freedoms;
         assert_eq!(f[0].together, Together::Mirror);
         assert_eq!(f[0].station_m, Some(Span::new(0.6, 0.9)));
         let holes = f[0].hole_sizes_m.as_ref().unwrap();
@@ -844,9 +821,8 @@ mod tests {
         assert_eq!(f[1].together, Together::Each);
 
         let bad = |body: &str| {
-            let v: toml::Value =
-                toml::from_str(&format!("[[freedom]]\nports = [\"a\"]\n{body}")).unwrap();
-            parse_freedoms(v.get("freedom").unwrap()).unwrap_err()
+            crate::optimize::sections_from_str(&format!("[[freedom]]\nports = [\"a\"]\n{body}"))
+                .unwrap_err()
         };
         let e = bad(r#"station = ["600 mm", "2 kg"]"#);
         assert_eq!(

@@ -11,6 +11,7 @@
 //!   directions (a Fibonacci sphere): the planes d_k·x ≤ h(d_k) bound it from
 //!   outside, and the maximising torques are attainable points inside it.
 
+use super::mingas::{positive_or_one, CommandRay};
 use super::{Allocation, AllocationStatus, Effectiveness, SideForceLimit, Tolerances};
 use good_lp::{
     microlp, variable, Expression, ProblemVariables, ResolutionError, Solution, SolverModel,
@@ -55,9 +56,14 @@ struct Model {
 }
 
 fn model(e: &Effectiveness) -> Model {
+    model_in_units(e, 1.0)
+}
+
+/// As [`model`], with duty variables in units of `duty_unit` (bounds [0, 1/duty_unit]).
+fn model_in_units(e: &Effectiveness, duty_unit: f64) -> Model {
     let mut vars = ProblemVariables::new();
     let u: Vec<Variable> = (0..e.len())
-        .map(|_| vars.add(variable().min(0.0).max(1.0)))
+        .map(|_| vars.add(variable().min(0.0).max(1.0 / duty_unit)))
         .collect();
     let row = |m: &nalgebra::Matrix3xX<f64>, r: usize| -> Expression {
         u.iter().enumerate().map(|(i, v)| m[(r, i)] * *v).sum()
@@ -105,56 +111,110 @@ fn gas_expression(e: &Effectiveness, u: &[Variable]) -> Expression {
         .sum()
 }
 
-/// Least gas for B u = s·τ with s fixed, or `Infeasible`.
+/// The torque rows divided by `unit` minus t·d, for a unit direction d.
+fn ray_rows<M: SolverModel>(
+    mut p: M,
+    torque: [Expression; 3],
+    unit: f64,
+    d: &Vector3<f64>,
+    t: Variable,
+) -> M {
+    for (r, row) in torque.into_iter().enumerate() {
+        p.add_constraint((row * (1.0 / unit) - d[r] * t).eq(0.0));
+    }
+    p
+}
+
+/// The side-force rule for duty variables in units of `duty_unit`.
+fn side_in_units(side: SideForceLimit, duty_unit: f64) -> SideForceLimit {
+    match side {
+        SideForceLimit::Bounded { limit_n } => SideForceLimit::Bounded {
+            limit_n: limit_n / duty_unit,
+        },
+        other => other,
+    }
+}
+
+/// Least gas for B u = t·unit·d with t in `length`, or `Infeasible`; duty
+/// variables in units of `du`, answer in plain duty cycles.
 fn least_gas_at(
     e: &Effectiveness,
-    tau: &Vector3<f64>,
+    ray: &CommandRay,
+    (unit, du): (f64, f64),
     side: SideForceLimit,
-    scale: (f64, f64),
+    length: (f64, f64),
 ) -> Result<Vec<f64>, LpError> {
     let Model {
         mut vars,
         u,
         torque,
         force,
-    } = model(e);
-    let s = vars.add(variable().min(scale.0).max(scale.1));
-    let mut p = vars.minimise(gas_expression(e, &u)).using(microlp);
-    for (r, t) in torque.into_iter().enumerate() {
-        p.add_constraint((t - tau[r] * s).eq(0.0));
-    }
-    let p = side_rows(p, &force, side)?;
+    } = model_in_units(e, du);
+    let t = vars.add(variable().min(length.0 / du).max(length.1 / du));
+    let p = vars.minimise(gas_expression(e, &u)).using(microlp);
+    let p = ray_rows(p, torque, unit, &ray.direction, t);
+    let p = side_rows(p, &force, side_in_units(side, du))?;
     let sol = p.solve()?;
-    Ok(u.iter().map(|v| sol.value(*v)).collect())
+    Ok(u.iter().map(|v| sol.value(*v) * du).collect())
 }
 
 /// Reference minimum-gas allocation: the same semantics as
-/// [`super::MinGasAllocator::allocate`], through `good_lp`/`microlp`.
+/// [`super::MinGasAllocator::allocate`], through `good_lp`/`microlp`, posed on
+/// the command's unit direction d and its length r (in units of the largest
+/// torque entry) in the same way.
 ///
-/// Outside the envelope the second step (least gas at the maximal scale s*) fixes
-/// s = s*; should `microlp` call that exact point infeasible by rounding, it
-/// retries with s ∈ [s*(1 − δ), s*], δ = [`Tolerances::reference_scale_relax`].
+/// Outside the envelope the second step (least gas at the maximal length t*)
+/// fixes t = t*; should `microlp` call that exact point infeasible by rounding, it
+/// retries with t ∈ [t*(1 − δ), t*], δ = [`Tolerances::reference_scale_relax`].
 pub fn reference_min_gas(
     e: &Effectiveness,
     tau: &Vector3<f64>,
     side: SideForceLimit,
     tol: &Tolerances,
 ) -> Result<Allocation, LpError> {
-    let (duty, scale, status) = match least_gas_at(e, tau, side, (1.0, 1.0)) {
+    let unit = positive_or_one(e.torque().abs().max());
+    let Some(ray) = CommandRay::of(tau, unit) else {
+        let duty = vec![0.0; e.len()];
+        return Ok(Allocation {
+            gas_rate_kg_s: 0.0,
+            torque: Vector3::zeros(),
+            force: Vector3::zeros(),
+            duty,
+            scale: 1.0,
+            status: AllocationStatus::Exact,
+        });
+    };
+    let longest: f64 = (0..e.len())
+        .map(|i| e.torque().column(i).norm() / unit)
+        .sum();
+    // Short commands in duty units of their own length, as the allocator does.
+    let du = if ray.length < tol.small_command {
+        ray.length
+    } else {
+        1.0
+    };
+    let units = (unit, du);
+    let first = if ray.length <= longest {
+        least_gas_at(e, &ray, units, side, (ray.length, ray.length))
+    } else {
+        Err(LpError::Infeasible)
+    };
+    let (duty, scale, status) = match first {
         Ok(u) => (u, 1.0, AllocationStatus::Exact),
         Err(LpError::Infeasible) => {
-            let mut s = max_scale(e, tau, side)?.clamp(0.0, 1.0);
-            if s <= tol.primal_feasibility {
-                s = 0.0;
+            let cap = ray.length.min(longest);
+            let mut t = ray_length(e, &ray, units, side, cap)?.clamp(0.0, cap);
+            if t <= tol.primal_feasibility * du {
+                t = 0.0;
             }
-            let u = match least_gas_at(e, tau, side, (s, s)) {
+            let u = match least_gas_at(e, &ray, units, side, (t, t)) {
                 Err(LpError::Infeasible) => {
-                    let low = s * (1.0 - tol.reference_scale_relax);
-                    least_gas_at(e, tau, side, (low, s))?
+                    let low = t * (1.0 - tol.reference_scale_relax);
+                    least_gas_at(e, &ray, units, side, (low, t))?
                 }
                 other => other?,
             };
-            (u, s, AllocationStatus::Saturated)
+            (u, ray.fraction(t), AllocationStatus::Saturated)
         }
         Err(other) => return Err(other),
     };
@@ -169,26 +229,45 @@ pub fn reference_min_gas(
     })
 }
 
-/// Largest s ∈ [0, 1] with s·τ attainable under the side-force rule.
-pub fn max_scale(
+/// Largest t ∈ [0, cap] with t·unit·d attainable under the side-force rule,
+/// solved with duty variables in units of `du`.
+fn ray_length(
     e: &Effectiveness,
-    tau: &Vector3<f64>,
+    ray: &CommandRay,
+    (unit, du): (f64, f64),
     side: SideForceLimit,
+    cap: f64,
 ) -> Result<f64, LpError> {
     let Model {
         mut vars,
         torque,
         force,
         ..
-    } = model(e);
-    let s = vars.add(variable().min(0.0).max(1.0));
-    let mut p = vars.maximise(s).using(microlp);
-    for (r, t) in torque.into_iter().enumerate() {
-        p.add_constraint((t - tau[r] * s).eq(0.0));
-    }
-    let p = side_rows(p, &force, side)?;
+    } = model_in_units(e, du);
+    let t = vars.add(variable().min(0.0).max(cap / du));
+    let p = vars.maximise(t).using(microlp);
+    let p = ray_rows(p, torque, unit, &ray.direction, t);
+    let p = side_rows(p, &force, side_in_units(side, du))?;
     let sol = p.solve()?;
-    Ok(sol.value(s))
+    Ok(sol.value(t) * du)
+}
+
+/// Largest s ∈ [0, 1] with s·τ attainable under the side-force rule (1 for the
+/// zero command), posed on τ's direction as [`reference_min_gas`] is.
+pub fn max_scale(
+    e: &Effectiveness,
+    tau: &Vector3<f64>,
+    side: SideForceLimit,
+) -> Result<f64, LpError> {
+    let unit = positive_or_one(e.torque().abs().max());
+    let Some(ray) = CommandRay::of(tau, unit) else {
+        return Ok(1.0);
+    };
+    let longest: f64 = (0..e.len())
+        .map(|i| e.torque().column(i).norm() / unit)
+        .sum();
+    let t = ray_length(e, &ray, (unit, 1.0), side, ray.length.min(longest))?;
+    Ok(ray.fraction(t))
 }
 
 /// Support value h(d) = max d·(B u) under the side-force rule, with the torque
@@ -310,6 +389,38 @@ mod tests {
         let dirs = fibonacci_directions(500);
         let mean: Vector3<f64> = dirs.iter().sum::<Vector3<f64>>() / 500.0;
         assert!(mean.norm() < 1e-2, "Fibonacci set is balanced");
+    }
+
+    #[test]
+    fn reference_scale_over_the_whole_command_range() {
+        // The reference is posed on the command's direction too: against the
+        // zonotope's exact ray maximum, scale·k = 1 for k > 1 to 1e-8 (microlp's
+        // tolerance) and the command met for k < 1, from 1e-12 to 1e15 times the
+        // envelope, and the zero command is met with every valve shut.
+        let tol = Tolerances::default();
+        let mut rng = Rng(616);
+        for case in 0..6 {
+            let e = random_layout(&mut rng, 5 + case);
+            let z = Zonotope::torque(&e, &tol).expect("builds");
+            let d = inside_command(&mut rng, &e).normalize();
+            let reach = z.max_along(&d);
+            for k in [1e-12, 1e-6, 0.5, 2.0, 1e6, 1e10, 1e12, 1e15] {
+                let tau = d * (reach * k);
+                let r = reference_min_gas(&e, &tau, SideForceLimit::Free, &tol).expect("solves");
+                if k < 1.0 {
+                    assert_eq!(r.status, AllocationStatus::Exact, "k {k:e}");
+                    assert!((r.torque - tau).norm() <= 1e-8 * tau.norm(), "k {k:e}");
+                } else {
+                    assert_eq!(r.status, AllocationStatus::Saturated, "k {k:e}");
+                    assert_relative_eq!(r.scale * k, 1.0, max_relative = 1e-8);
+                    let s = max_scale(&e, &tau, SideForceLimit::Free).expect("solves");
+                    assert_relative_eq!(s * k, 1.0, max_relative = 1e-8);
+                }
+            }
+            let zero = reference_min_gas(&e, &Vector3::zeros(), SideForceLimit::Free, &tol)
+                .expect("solves");
+            assert_eq!((zero.scale, zero.gas_rate_kg_s), (1.0, 0.0));
+        }
     }
 
     #[test]

@@ -4,11 +4,22 @@
 //! minimise Σ ṁᵢ uᵢ   subject to   B u = s·τ,  0 ≤ uᵢ ≤ 1,  (side-force rows)
 //! ```
 //!
-//! Inside the attainable set the scale s is fixed at 1. When that program is
-//! infeasible the command is out of reach, and the allocator keeps its direction:
-//! it first maximises s ∈ [0, 1] (same rows, objective −s), then fixes s at that
-//! maximum and minimises gas from the basis it already has, so the second step
-//! needs no Phase I. Scale 0 means no positive multiple of τ is attainable.
+//! The program is posed on the command's direction, never on its raw numbers:
+//! τ = r·d with d the unit direction (found by dividing by the largest component
+//! first, so that neither huge nor sub-normal components overflow or underflow)
+//! and r its length in units of the largest torque entry. The rows read
+//! B u − t·d = 0 with the magnitude t a variable of its own; every coefficient is
+//! then of order one whatever the command's size, so a command 10⁻¹² or 10¹⁵ times
+//! the envelope is as well conditioned as one on its boundary.
+//!
+//! Inside the attainable set t is fixed at r. When that program is infeasible,
+//! or r exceeds Σ|bᵢ| (no attainable torque is that long, so no solve is needed to
+//! know), the command is out of reach and the allocator keeps its direction: it
+//! first maximises t ∈ [0, min(r, Σ|bᵢ|)] (same rows, objective −t), then fixes t
+//! at that maximum t* and minimises gas from the basis it already has, so the
+//! second step needs no Phase I. The scale reported is t*/r; scale 0 means no
+//! positive multiple of τ is attainable. The zero command needs no program: every
+//! valve stays shut and the command counts as met (scale 1).
 //!
 //! Side force: `Bounded` adds rows F_y·u − w_y = 0, F_z·u − w_z = 0 with
 //! w ∈ [−limit, limit]; `PureCouple` is the same with limit 0. Axial force (x) is
@@ -114,6 +125,14 @@ pub struct MinGasAllocator {
     lp: BoundedSimplex,
     n: usize,
     torque_scale: f64,
+    /// Σ|bᵢ| / `torque_scale`: no attainable torque is longer (scaled units).
+    longest_reach: f64,
+    /// Side-force limit / force scale, when there are side-force rows.
+    side_limit: Option<f64>,
+    /// Largest |F_y| or |F_z| with every port at full duty, over the force scale.
+    side_cap: f64,
+    /// Unit of the duty variables in the program (see [`Self::set_unit`]).
+    unit: f64,
     gas_scale: f64,
     costs_changed: bool,
     tol: Tolerances,
@@ -162,11 +181,21 @@ impl MinGasAllocator {
                 lp.set_bounds(j, -l / force_scale, l / force_scale)?;
             }
         }
+        let longest_reach = (0..n)
+            .map(|i| e.torque().column(i).norm() / torque_scale)
+            .sum();
+        let side_cap = (1..3)
+            .map(|r| (0..n).map(|i| e.force()[(r, i)].abs()).sum::<f64>() / force_scale)
+            .fold(0.0, f64::max);
         let mut a = Self {
             e: e.clone(),
             lp,
             n,
             torque_scale,
+            longest_reach,
+            side_limit: limit.map(|l| l / force_scale),
+            side_cap,
+            unit: 1.0,
             gas_scale,
             costs_changed: true,
             tol: tol.clone(),
@@ -206,25 +235,39 @@ impl MinGasAllocator {
         if tau.iter().any(|v| !v.is_finite()) {
             return Err(AllocationError::BadCommand);
         }
-        let s = self.n;
+        let Some(ray) = CommandRay::of(tau, self.torque_scale) else {
+            // The zero command: nothing to produce, every valve shut.
+            out.duty.iter_mut().for_each(|d| *d = 0.0);
+            out.gas_rate_kg_s = 0.0;
+            out.torque = Vector3::zeros();
+            out.force = Vector3::zeros();
+            out.scale = 1.0;
+            out.status = AllocationStatus::Exact;
+            return Ok(());
+        };
+        let t = self.n;
         for r in 0..3 {
-            self.lp.set_entry(r, s, -tau[r] / self.torque_scale);
+            self.lp.set_entry(r, t, -ray.direction[r]);
         }
         if self.costs_changed {
             self.restore_costs();
         }
-        self.lp.set_bounds(s, 1.0, 1.0)?;
-        let (scale, status) = match self.lp.solve(Start::Warm) {
-            Ok(_) => (1.0, AllocationStatus::Exact),
-            Err(SimplexError::Infeasible { .. }) => {
-                let reach = self.max_scale()?;
-                (reach, AllocationStatus::Saturated)
-            }
-            Err(other) => return Err(other.into()),
+        // A command much shorter than one port's torque is solved in duty units
+        // of its own length, so that the simplex's absolute thresholds stay
+        // relative to the command; should a clipped side-force range bind there,
+        // the program is solved again in plain duty units.
+        let small = ray.length < self.tol.small_command;
+        let (scale, status) = match self.solve_ray(&ray, if small { ray.length } else { 1.0 }) {
+            Ok(Some(found)) => found,
+            Ok(None) => self
+                .solve_ray(&ray, 1.0)?
+                .ok_or(AllocationError::Solver(SimplexError::SingularBasis))?,
+            Err(e) => return Err(e),
         };
+        let unit = self.unit;
         let u = self.lp.values();
         for (d, x) in out.duty.iter_mut().zip(u) {
-            *d = x.clamp(0.0, 1.0);
+            *d = (x * unit).clamp(0.0, 1.0);
         }
         out.gas_rate_kg_s = self.e.gas_for(&out.duty);
         out.torque = self.e.torque_for(&out.duty);
@@ -234,21 +277,92 @@ impl MinGasAllocator {
         Ok(())
     }
 
-    /// Out of reach: maximise s, then least gas at that s from the same basis.
-    fn max_scale(&mut self) -> Result<f64, AllocationError> {
-        let s = self.n;
+    /// Duty variables in units of `unit` (1: plain duty cycles). Their bounds
+    /// become [0, 1/unit] and the side-force range ±limit/unit, clipped to the
+    /// largest side force the ports can make at unit duty, which keeps the
+    /// starting point of Phase I finite and of order one.
+    fn set_unit(&mut self, unit: f64) -> Result<(), AllocationError> {
+        if unit == self.unit {
+            return Ok(());
+        }
+        for i in 0..self.n {
+            self.lp.set_bounds(i, 0.0, 1.0 / unit)?;
+        }
+        if let Some(l) = self.side_limit {
+            let w = self.side_range(l, unit);
+            for k in 0..2 {
+                self.lp.set_bounds(self.n + 1 + k, -w, w)?;
+            }
+        }
+        self.unit = unit;
+        Ok(())
+    }
+
+    /// Half-width of the side-force variables' range in duty units of `unit`:
+    /// limit/unit, but at most 1000 times the larger of the limit and the side
+    /// force of every port at full duty (all scaled), a range no answer of a
+    /// command shorter than one port's torque comes near in practice.
+    fn side_range(&self, limit: f64, unit: f64) -> f64 {
+        if unit == 1.0 {
+            limit
+        } else {
+            (limit / unit).min(1e3 * limit.max(self.side_cap))
+        }
+    }
+
+    /// One solve of the ray program in duty units of `unit`: `None` when a
+    /// clipped side-force range binds at the answer (the caller solves again in
+    /// plain units).
+    fn solve_ray(
+        &mut self,
+        ray: &CommandRay,
+        unit: f64,
+    ) -> Result<Option<(f64, AllocationStatus)>, AllocationError> {
+        self.set_unit(unit)?;
+        let t = self.n;
+        let length = ray.length / unit;
+        let first = if ray.length <= self.longest_reach {
+            self.lp.set_bounds(t, length, length)?;
+            self.lp.solve(Start::Warm)
+        } else {
+            Err(SimplexError::Infeasible { residual: f64::NAN })
+        };
+        let found = match first {
+            Ok(_) => (1.0, AllocationStatus::Exact),
+            Err(SimplexError::Infeasible { .. }) => {
+                let reach = self.max_reach(length.min(self.longest_reach / unit))?;
+                (ray.fraction(reach * unit), AllocationStatus::Saturated)
+            }
+            Err(other) => return Err(other.into()),
+        };
+        if let Some(l) = self.side_limit {
+            let w = self.side_range(l, unit);
+            let clipped = w < l / unit;
+            let binds = (0..2).any(|k| self.lp.value(self.n + 1 + k).abs() >= w * (1.0 - 1e-12));
+            if clipped && binds {
+                return Ok(None);
+            }
+        }
+        Ok(Some(found))
+    }
+
+    /// Out of reach: maximise the magnitude t ∈ [0, `cap`] along the direction
+    /// already in the rows, then least gas at that t from the same basis. Returns
+    /// t* in scaled units.
+    fn max_reach(&mut self, cap: f64) -> Result<f64, AllocationError> {
+        let t = self.n;
         for i in 0..self.n {
             self.lp.set_cost(i, 0.0);
         }
-        self.lp.set_cost(s, -1.0);
+        self.lp.set_cost(t, -1.0);
         self.costs_changed = true;
-        self.lp.set_bounds(s, 0.0, 1.0)?;
+        self.lp.set_bounds(t, 0.0, cap)?;
         self.lp.solve(Start::Cold)?;
-        let mut reach = self.lp.value(s);
+        let mut reach = self.lp.value(t).clamp(0.0, cap);
         if reach <= self.tol.primal_feasibility {
             reach = 0.0;
         }
-        self.lp.set_bounds(s, reach, reach)?;
+        self.lp.set_bounds(t, reach, reach)?;
         self.restore_costs();
         self.lp.resolve()?;
         Ok(reach)
@@ -264,6 +378,52 @@ impl MinGasAllocator {
             .par_iter()
             .map_init(|| self.clone(), |a, tau| a.allocate(tau))
             .collect()
+    }
+}
+
+/// A non-zero command as a unit direction and a length in units of `unit`.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct CommandRay {
+    /// Unit vector along the command.
+    pub direction: Vector3<f64>,
+    /// |τ| / unit; may be infinite when the command is near `f64::MAX`.
+    pub length: f64,
+    /// Largest component magnitude of τ, N·m.
+    largest: f64,
+    /// |τ| / `largest`, between 1 and √3.
+    spread: f64,
+    unit: f64,
+}
+
+impl CommandRay {
+    /// The ray of a finite command, or `None` for the zero command. Dividing by
+    /// the largest component before taking the length keeps sub-normal and huge
+    /// components exact.
+    pub fn of(tau: &Vector3<f64>, unit: f64) -> Option<Self> {
+        let largest = tau.amax();
+        if largest == 0.0 || !largest.is_finite() {
+            return None;
+        }
+        let d = tau / largest;
+        let spread = d.norm();
+        Some(Self {
+            direction: d / spread,
+            length: largest / unit * spread,
+            largest,
+            spread,
+            unit,
+        })
+    }
+
+    /// The fraction of the command that a length `reach` (same units) is,
+    /// computed without forming |τ| when it would overflow.
+    pub fn fraction(&self, reach: f64) -> f64 {
+        let f = if self.length.is_finite() {
+            reach / self.length
+        } else {
+            reach * self.unit / self.largest / self.spread
+        };
+        f.clamp(0.0, 1.0)
     }
 }
 
@@ -423,6 +583,100 @@ mod tests {
             let (_, cs) = clarabel_min_gas(&e, &tau, SideForceLimit::Free, 0.0, 1.0, true)
                 .expect("clarabel solves");
             assert_relative_eq!(got.scale, cs, max_relative = 1e-7);
+        }
+    }
+
+    /// Multiples of the envelope from 1e-12 to 1e15, both sides of the boundary.
+    const COMMAND_MULTIPLES: [f64; 16] = [
+        1e-12, 1e-9, 1e-6, 1e-3, 0.25, 0.9, 1.1, 2.0, 10.0, 1e3, 1e6, 1e8, 1e10, 1e11, 1e12, 1e15,
+    ];
+
+    #[test]
+    fn exact_scale_over_the_whole_command_range() {
+        // Reference: the zonotope's ray maximum ρ(d) along the unit direction d (exact
+        // facet computation, checked against brute force in zonotope.rs). For a command
+        // k·ρ(d)·d the allocator must meet it exactly when k < 1 (torque equal to the
+        // command to 1e-9 of its own length: a few roundings of order-one data) and
+        // give scale 1/k when k > 1 (scale·k = 1 to 1e-9 relative, the simplex's
+        // feasibility tolerance on order-one rows). Both warm and cold workspaces,
+        // with and without side-force rows, in increasing and decreasing order.
+        let tol = Tolerances::default();
+        let mut rng = Rng(515);
+        for case in 0..12 {
+            let e = random_layout(&mut rng, 4 + case % 9);
+            let z = Zonotope::torque(&e, &tol).expect("builds");
+            for side in sides() {
+                let mut warm = MinGasAllocator::new(&e, side, &tol).expect("setup");
+                let d = inside_command(&mut rng, &e).normalize();
+                let reach = match side {
+                    SideForceLimit::Free => z.max_along(&d),
+                    _ => lp::max_along(&e, &d, side).expect("solves"),
+                };
+                if reach <= 1e-6 * z.scale() {
+                    continue;
+                }
+                let mut order = COMMAND_MULTIPLES.to_vec();
+                if case % 2 == 1 {
+                    order.reverse();
+                }
+                for k in order {
+                    let tau = d * (reach * k);
+                    let mut cold = MinGasAllocator::new(&e, side, &tol).expect("setup");
+                    for (which, a) in [("warm", &mut warm), ("cold", &mut cold)] {
+                        let got = a.allocate(&tau).expect("solves");
+                        let what = format!("case {case} {side:?} k {k:e} {which}");
+                        assert!(got.duty.iter().all(|u| (0.0..=1.0).contains(u)), "{what}");
+                        if k < 1.0 {
+                            assert_eq!(got.status, AllocationStatus::Exact, "{what}");
+                            assert_eq!(got.scale, 1.0, "{what}");
+                            assert!(
+                                (got.torque - tau).norm() <= 1e-9 * tau.norm(),
+                                "{what}: {:?} for {:?}",
+                                got.torque,
+                                tau
+                            );
+                        } else {
+                            assert_eq!(got.status, AllocationStatus::Saturated, "{what}");
+                            assert_relative_eq!(got.scale * k, 1.0, max_relative = 1e-9);
+                            assert!(
+                                (got.torque - d * reach).norm() <= 1e-9 * reach,
+                                "{what}: {:?}",
+                                got.torque
+                            );
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn zero_and_subnormal_commands() {
+        // Zero: nothing to do, every valve shut, reported as met (scale 1). A command
+        // whose components are sub-normal numbers is a real direction: it is met
+        // exactly like any small command, with duties of the same tiny order.
+        let tol = Tolerances::default();
+        let mut rng = Rng(8);
+        let e = random_layout(&mut rng, 7);
+        let mut a = MinGasAllocator::new(&e, SideForceLimit::Free, &tol).expect("setup");
+        let got = a.allocate(&Vector3::zeros()).expect("solves");
+        assert_eq!(got.status, AllocationStatus::Exact);
+        assert_eq!(got.scale, 1.0);
+        assert!(got.duty.iter().all(|u| *u == 0.0));
+        assert_eq!(got.gas_rate_kg_s, 0.0);
+        let d = inside_command(&mut rng, &e).normalize();
+        for tiny in [1e-300, 4e-310, 5e-320] {
+            let tau = d * tiny;
+            let got = a.allocate(&tau).expect("solves");
+            assert_eq!(got.status, AllocationStatus::Exact, "{tiny:e}");
+            assert_eq!(got.scale, 1.0);
+            assert!(got.duty.iter().all(|u| (0.0..=1.0).contains(u)));
+            // Sub-normal arithmetic keeps only a few digits: the torque is right to
+            // the spacing of sub-normal numbers times the column sizes.
+            assert!(
+                (got.torque - tau).norm() <= 1e-9 * tiny + 1e-318,
+                "{tiny:e}"
+            );
         }
     }
 

@@ -111,6 +111,12 @@ pub struct Tolerances {
     /// Relative noise floor on on/off torque comparisons, so that exact symmetry
     /// survives rounding of sums (fraction of the largest axis torque).
     pub onoff_noise: f64,
+    /// A command shorter than this many times the largest torque entry is solved
+    /// by the allocator in duty units of its own length (see [`mingas`]), so that
+    /// the absolute thresholds above stay relative to the command. At 1e-3 the
+    /// plain program still resolves the command to 1e-6 of its length; below it,
+    /// it would not.
+    pub small_command: f64,
 }
 
 impl Default for Tolerances {
@@ -131,6 +137,7 @@ impl Default for Tolerances {
             reference_scale_relax: 1e-9,
             region_slack: 1e-9,
             onoff_noise: 1e-9,
+            small_command: 1e-3,
         }
     }
 }

@@ -111,6 +111,14 @@ pub struct Tolerances {
     /// Relative noise floor on on/off torque comparisons, so that exact symmetry
     /// survives rounding of sums (fraction of the largest axis torque).
     pub onoff_noise: f64,
+    /// Relative tolerance of every on/off comparison: a commanded axis passes
+    /// when its torque reaches (fraction − this) × the axis's best, an uncommanded
+    /// axis when it stays within (tolerance + this) × its scale, and two valve sets
+    /// whose gas differs by less than this fraction cost the same (the rule in
+    /// [`onoff`] then prefers fewer valves). Mirrored ports give torques that are
+    /// equal in exact arithmetic but differ in the last bits of their sums; 1e-9 is
+    /// millions of roundings wide and far below any physical difference.
+    pub onoff_share: f64,
     /// A command shorter than this many times the largest torque entry is solved
     /// by the allocator in duty units of its own length (see [`mingas`]), so that
     /// the absolute thresholds above stay relative to the command. At 1e-3 the
@@ -138,6 +146,7 @@ impl Default for Tolerances {
             region_slack: 1e-9,
             onoff_noise: 1e-9,
             small_command: 1e-3,
+            onoff_share: 1e-9,
         }
     }
 }

@@ -2,15 +2,30 @@
 //!
 //! Many cold-gas systems use plain solenoid valves: a port is open or shut for a
 //! whole control step. For each command the chosen set must
-//! - on each commanded axis a, push the right way with at least `fraction` ×
-//!   best(a, cₐ), where best(a, σ) is the largest σ-torque any valve set gives
-//!   on that axis (with full supply, the sum of the positive contributions
-//!   σ·b_{i,a}; with supply droop, the largest f(k)·(sum of the k largest));
-//! - on each uncommanded axis keep |τₐ| ≤ `tolerance` × scaleₐ, with
+//! - on each commanded axis a, push the right way with at least
+//!   (`fraction` − ε) × best(a, cₐ), where best(a, σ) is the largest σ-torque any
+//!   valve set gives on that axis (with full supply, the sum of the positive
+//!   contributions σ·b_{i,a}; with supply droop, the largest f(k)·(sum of the k
+//!   largest));
+//! - on each uncommanded axis keep |τₐ| ≤ (`tolerance` + ε) × scaleₐ, with
 //!   scaleₐ = max(best(a, +), best(a, −)), the axis's best on/off torque.
 //!
-//! "Right way" means beyond a noise floor of [`Tolerances::onoff_noise`] × the
+//! ε = [`Tolerances::onoff_share`] (1e-9) is the comparison tolerance on these
+//! shares. It exists for one common case: a port that gives exactly the
+//! threshold share of an axis, such as one port of a mirrored roll pair at the
+//! default fraction ½. In exact arithmetic both mirror ports give exactly half;
+//! in floating point their sums differ in the last bit, and without ε one would
+//! pass and its mirror fail, so the table would depend on rounding. With it,
+//! mirror ports are treated alike.
+//!
+//! "Right way" also means beyond a noise floor of [`Tolerances::onoff_noise`] × the
 //! largest axis scale, so that exact symmetry survives the rounding of sums.
+//!
+//! Among the qualifying sets the least gas wins; gas rates within ε (relative) of
+//! each other count as equal, and then the set with fewer open valves wins, and
+//! then the one with the smaller mask (bit i = port i), i.e. the one whose
+//! highest differing port comes earlier in the layout. So the choice is always
+//! made by this stated rule, never by rounding.
 //!
 //! Supply droop: with k valves open each delivers the fraction f(k) of its full
 //! thrust (caller's `thrust_factor`), which scales the set's torque, force and gas.
@@ -21,12 +36,16 @@
 //! step, so each set costs one column update; sums are recomputed from scratch
 //! every 1024 steps to keep rounding from building up); above that, one integer
 //! program per valve count k through `good_lp`/`microlp` (binary variables),
-//! which is needed because f(k) makes the thresholds depend on k.
+//! which is needed because f(k) makes the thresholds depend on k. Within one
+//! valve count the integer program returns one least-gas set; when several
+//! sets of that count cost exactly the same, which of them it returns is the
+//! solver's deterministic choice rather than the mask rule above.
 //!
 //! When no set qualifies the plan gives the best near miss: the non-empty set
 //! with the smallest shortfall, the sum over axes of the missing amount
 //! (commanded: threshold − achieved; uncommanded: |τₐ| − limit; each only when
-//! positive) divided by that axis's scale; ties go to less gas, then fewer valves.
+//! positive) divided by that axis's scale; shortfalls within ε of each other
+//! count as equal, and ties go to less gas, then fewer valves, then the smaller mask.
 
 use super::{Effectiveness, LpError, Tolerances};
 use good_lp::{microlp, variable, Expression, ProblemVariables, Solution, SolverModel, Variable};
@@ -150,6 +169,7 @@ struct Limits {
     noise: f64,
     fraction: f64,
     tolerance: f64,
+    share: f64,
 }
 
 impl Limits {
@@ -202,6 +222,7 @@ impl Limits {
             noise,
             fraction: opts.fraction,
             tolerance: opts.tolerance,
+            share: tol.onoff_share,
         })
     }
 
@@ -212,12 +233,40 @@ impl Limits {
         } else {
             self.best_neg[a]
         };
-        (self.fraction * best).max(self.noise)
+        ((self.fraction - self.share) * best).max(self.noise)
     }
 
     /// Largest |τₐ| on uncommanded axis a.
     fn limit(&self, a: usize) -> f64 {
-        self.tolerance * self.axis_scale[a] + self.noise
+        (self.tolerance + self.share) * self.axis_scale[a] + self.noise
+    }
+
+    /// True when gas rate `a` is less than `b` by more than the share tolerance.
+    fn cheaper(&self, a: f64, b: f64) -> bool {
+        a < b - self.share * a.abs().max(b.abs())
+    }
+
+    /// The stated order of candidates: gas (equal within the share tolerance),
+    /// then valve count, then mask.
+    fn before(&self, a: (f64, usize, u64), b: (f64, usize, u64)) -> bool {
+        if self.cheaper(a.0, b.0) {
+            return true;
+        }
+        if self.cheaper(b.0, a.0) {
+            return false;
+        }
+        (a.1, a.2) < (b.1, b.2)
+    }
+
+    /// Near misses: shortfall (equal within the share tolerance), then as [`Self::before`].
+    fn before_near(&self, a: (f64, f64, usize, u64), b: (f64, f64, usize, u64)) -> bool {
+        if a.0 < b.0 - self.share {
+            return true;
+        }
+        if b.0 < a.0 - self.share {
+            return false;
+        }
+        self.before((a.1, a.2, a.3), (b.1, b.2, b.3))
     }
 
     fn norm(&self, a: usize) -> f64 {
@@ -339,7 +388,7 @@ impl OnOffPlan {
                                 let c = [x as i8 - 1, y as i8 - 1, z as i8 - 1];
                                 let slot = &mut best[index_of(c)];
                                 let cand = (gas, k, mask);
-                                if slot.is_none_or(|b| lex3(cand, b)) {
+                                if slot.is_none_or(|b| lim.before(cand, b)) {
                                     *slot = Some(cand);
                                 }
                             }
@@ -352,7 +401,7 @@ impl OnOffPlan {
                         }
                         let cand = (lim.shortfall(&t, c), gas, k, mask);
                         let slot = &mut near[ci];
-                        if slot.is_none_or(|b| lex4(cand, b)) {
+                        if slot.is_none_or(|b| lim.before_near(cand, b)) {
                             *slot = Some(cand);
                         }
                     }
@@ -409,7 +458,8 @@ impl OnOffPlan {
             let mut found: Option<(f64, usize, Vec<usize>)> = None;
             for k in 1..=n {
                 if let Some((gas, ports)) = ilp(e, &lim, &c, k, None)? {
-                    if found.as_ref().is_none_or(|b| gas < b.0) {
+                    // Valve counts rise with k: a later k wins only when cheaper.
+                    if found.as_ref().is_none_or(|b| lim.cheaper(gas, b.0)) {
                         found = Some((gas, k, ports));
                     }
                 }
@@ -430,7 +480,7 @@ impl OnOffPlan {
                         continue;
                     }
                     if let Some((gas, ports)) = ilp(e, &lim, &c, k, Some(allowed))? {
-                        if pick.as_ref().is_none_or(|b| gas < b.0) {
+                        if pick.as_ref().is_none_or(|b| lim.cheaper(gas, b.0)) {
                             pick = Some((gas, ports));
                         }
                     }
@@ -455,18 +505,6 @@ impl OnOffPlan {
     pub fn get(&self, c: [i8; 3]) -> Option<&OnOffSelection> {
         self.entries.iter().find(|(k, _)| *k == c).map(|(_, s)| s)
     }
-}
-
-fn lex3(a: (f64, usize, u64), b: (f64, usize, u64)) -> bool {
-    a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)).then(a.2.cmp(&b.2)) == std::cmp::Ordering::Less
-}
-
-fn lex4(a: (f64, f64, usize, u64), b: (f64, f64, usize, u64)) -> bool {
-    a.0.total_cmp(&b.0)
-        .then(a.1.total_cmp(&b.1))
-        .then(a.2.cmp(&b.2))
-        .then(a.3.cmp(&b.3))
-        == std::cmp::Ordering::Less
 }
 
 /// Calls `visit(mask, k, Σ torque, Σ gas)` for every non-empty set in Gray-code order.
@@ -633,7 +671,7 @@ mod tests {
     use crate::allocation::testkit::{port_at, random_layout, Rng};
     use approx::assert_relative_eq;
     use proptest::prelude::*;
-    use std::f64::consts::FRAC_PI_2;
+    use std::f64::consts::{FRAC_PI_2, FRAC_PI_4, PI};
 
     fn full_supply(_: usize) -> f64 {
         1.0
@@ -653,12 +691,13 @@ mod tests {
         o: &OnOffOptions,
         noise: f64,
     ) -> bool {
+        let eps = Tolerances::default().onoff_share;
         (0..3).all(|a| {
             let scale = plan.best_positive[a].max(plan.best_negative[a]);
             match c[a] {
-                0 => set.torque[a].abs() <= o.tolerance * scale + noise,
-                1 => set.torque[a] >= (o.fraction * plan.best_positive[a]).max(noise),
-                _ => -set.torque[a] >= (o.fraction * plan.best_negative[a]).max(noise),
+                0 => set.torque[a].abs() <= (o.tolerance + eps) * scale + noise,
+                1 => set.torque[a] >= ((o.fraction - eps) * plan.best_positive[a]).max(noise),
+                _ => -set.torque[a] >= ((o.fraction - eps) * plan.best_negative[a]).max(noise),
             }
         })
     }
@@ -769,6 +808,123 @@ mod tests {
             assert!(matches!(s, OnOffSelection::Meets(_)), "{c:?}");
             assert_eq!(s.set().valves_open, axes, "{c:?}");
         }
+    }
+
+    /// A pitch/yaw cross of radial ports and two mirrored tangential roll pairs
+    /// (clock θ and θ + 180° push the same roll sense), on a 27 mm radius, with
+    /// the roll ports `roll_arm` m and the radial ports `pitch_arm` m from the CG
+    /// along the axis.
+    fn cross_with_roll_pairs(theta: f64, roll_arm: f64, pitch_arm: f64) -> Effectiveness {
+        let r = 0.027;
+        let mut ports: Vec<_> = (0..4)
+            .map(|k| {
+                let a = k as f64 * FRAC_PI_2;
+                let radial = Vector3::new(0.0, a.cos(), a.sin());
+                port_at(&format!("radial-{k}"), pitch_arm, r, a, -radial, 1.6)
+            })
+            .collect();
+        for (name, clock, sense) in [
+            ("roll-pos-a", theta, 1.0),
+            ("roll-pos-b", theta + PI, 1.0),
+            ("roll-neg-a", theta + FRAC_PI_2, -1.0),
+            ("roll-neg-b", theta + 3.0 * FRAC_PI_2, -1.0),
+        ] {
+            let travel = Vector3::new(0.0, -clock.sin(), clock.cos());
+            ports.push(port_at(name, roll_arm, r, clock, travel * sense, 0.9));
+        }
+        Effectiveness::from_ports(&ports).expect("valid")
+    }
+
+    /// Least gas (kg/s) and valve count of a qualifying set.
+    type GasAndCount = (f64, usize);
+
+    /// Brute force, written from the module notes alone: every non-empty set, its
+    /// torque summed from scratch in reverse port order (a different rounding from
+    /// the Gray walk), thresholds with the share tolerance ε, least gas. Returns
+    /// the least gas and valve count per command, `None` where nothing qualifies.
+    fn brute_force(
+        e: &Effectiveness,
+        o: &OnOffOptions,
+        factor: &dyn Fn(usize) -> f64,
+    ) -> Vec<([i8; 3], Option<GasAndCount>)> {
+        let tol = Tolerances::default();
+        let (eps, n) = (tol.onoff_share, e.len());
+        let sets: Vec<(Vector3<f64>, f64, usize)> = (1u32..(1 << n))
+            .map(|mask| {
+                let k = mask.count_ones() as usize;
+                let mut t = Vector3::zeros();
+                let mut gas = 0.0;
+                for i in (0..n).rev().filter(|i| mask >> i & 1 == 1) {
+                    t += e.torque().column(i) * factor(k);
+                    gas += e.mass_flow_kg_s()[i] * factor(k);
+                }
+                (t, gas, k)
+            })
+            .collect();
+        let best = |a: usize, sign: f64| sets.iter().map(|s| sign * s.0[a]).fold(0.0, f64::max);
+        let pos = Vector3::from_fn(|a, _| best(a, 1.0));
+        let neg = Vector3::from_fn(|a, _| best(a, -1.0));
+        let noise = tol.onoff_noise * pos.sup(&neg).max();
+        commands()
+            .into_iter()
+            .map(|c| {
+                let ok = |t: &Vector3<f64>| {
+                    (0..3).all(|a| match c[a] {
+                        0 => t[a].abs() <= (o.tolerance + eps) * pos[a].max(neg[a]) + noise,
+                        1 => t[a] >= ((o.fraction - eps) * pos[a]).max(noise),
+                        _ => -t[a] >= ((o.fraction - eps) * neg[a]).max(noise),
+                    })
+                };
+                let least = sets.iter().filter(|s| ok(&s.0)).map(|s| (s.1, s.2)).fold(
+                    None,
+                    |acc: Option<(f64, usize)>, s| match acc {
+                        Some(b) if b.0 < s.0 * (1.0 - eps) => Some(b),
+                        Some(b) if b.0 <= s.0 * (1.0 + eps) && b.1 <= s.1 => Some(b),
+                        _ => Some(s),
+                    },
+                );
+                (c, least)
+            })
+            .collect()
+    }
+
+    #[test]
+    fn mirrored_roll_pairs_get_the_least_gas_rows() {
+        // One port of a mirrored roll pair gives exactly half the best roll, the
+        // default fraction. Over many clocks and lever arms (each like another
+        // flight state's CG) and with and without droop, every row must cost the
+        // brute-force least gas (1e-12 relative: sums of the same few flows) with
+        // the same valve count, and ±roll rows must be alike: the same valve count
+        // and gas, since the two pairs are mirror images.
+        let tol = Tolerances::default();
+        let o = OnOffOptions::default();
+        let mut checked = 0;
+        for step in 0..24 {
+            let theta = FRAC_PI_4 + 0.01 * step as f64;
+            let roll_arm = -0.40 + 0.013 * step as f64;
+            let pitch_arm = -0.05 - 0.011 * step as f64;
+            let e = cross_with_roll_pairs(theta, roll_arm, pitch_arm);
+            let factor: &dyn Fn(usize) -> f64 = if step % 2 == 0 { &full_supply } else { &droop };
+            let plan = OnOffPlan::by_enumeration(&e, &o, factor, &tol).expect("plans");
+            for ((c, sel), (cb, reference)) in plan.entries.iter().zip(brute_force(&e, &o, factor))
+            {
+                assert_eq!(*c, cb);
+                match (sel, reference) {
+                    (OnOffSelection::Meets(set), Some((gas, k))) => {
+                        assert_relative_eq!(set.gas_rate_kg_s, gas, max_relative = 1e-12);
+                        assert_eq!(set.valves_open, k, "step {step} command {c:?}");
+                        checked += 1;
+                    }
+                    (OnOffSelection::NearMiss { .. }, None) => {}
+                    (got, want) => panic!("step {step} command {c:?}: {got:?} vs {want:?}"),
+                }
+            }
+            let pos = plan.get([1, 0, 0]).expect("present").set();
+            let neg = plan.get([-1, 0, 0]).expect("present").set();
+            assert_eq!(pos.valves_open, neg.valves_open, "step {step}");
+            assert_relative_eq!(pos.gas_rate_kg_s, neg.gas_rate_kg_s, max_relative = 1e-12);
+        }
+        assert!(checked > 24 * 12, "only {checked} rows compared");
     }
 
     #[test]

@@ -75,11 +75,13 @@ pub enum Command {
         /// Also tabulate a regular grid with this many points per axis (2–65).
         #[arg(long)]
         grid: Option<usize>,
-        /// On/off sets must reach this fraction of the best torque on commanded axes.
-        #[arg(long, default_value_t = 0.5)]
+        /// On/off sets must reach this fraction (0 to 1) of the best on/off torque on
+        /// each commanded axis and sense.
+        #[arg(long, default_value_t = 0.5, value_parser = fraction_value, allow_hyphen_values = true)]
         fraction: f64,
-        /// Torque allowed on uncommanded axes, as a fraction of that axis's best.
-        #[arg(long, default_value_t = 0.1)]
+        /// Torque allowed on uncommanded axes, as a fraction (0 or more) of that
+        /// axis's best on/off torque.
+        #[arg(long, default_value_t = 0.1, value_parser = tolerance_value, allow_hyphen_values = true)]
         tolerance: f64,
     },
     /// Search port stations, clocks, cants and hole sizes for the best worst-case margin.
@@ -143,4 +145,31 @@ pub enum PaperSize {
     A4,
     /// US Letter.
     Letter,
+}
+
+fn number(text: &str) -> Result<f64, String> {
+    match text.trim().parse::<f64>() {
+        Ok(v) if v.is_finite() => Ok(v),
+        _ => Err(format!("expected a plain number, found \"{text}\"")),
+    }
+}
+
+/// `--fraction`: a number from 0 to 1.
+fn fraction_value(text: &str) -> Result<f64, String> {
+    let v = number(text)?;
+    if (0.0..=1.0).contains(&v) {
+        Ok(v)
+    } else {
+        Err(format!("expected a number from 0 to 1, found {v}"))
+    }
+}
+
+/// `--tolerance`: a number of 0 or more.
+fn tolerance_value(text: &str) -> Result<f64, String> {
+    let v = number(text)?;
+    if v >= 0.0 {
+        Ok(v)
+    } else {
+        Err(format!("expected a number of 0 or more, found {v}"))
+    }
 }

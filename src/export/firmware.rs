@@ -198,6 +198,33 @@ pub struct CommandGrid {
     pub points: Vec<GridPoint>,
 }
 
+/// The rule the on/off rows were chosen by (see [`crate::allocation::onoff`]).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct OnOffRule {
+    /// A commanded axis needs at least (fraction − comparison tolerance) × its best torque.
+    pub fraction: f64,
+    /// An uncommanded axis may carry at most (tolerance + comparison tolerance) × its scale.
+    pub tolerance: f64,
+    /// Relative tolerance of every comparison: shares and gas rates closer than
+    /// this count as equal, so mirrored ports are treated alike.
+    pub comparison_tolerance: f64,
+    /// A commanded axis must also exceed this torque in the commanded sense, N·m.
+    pub noise_floor_nm: f64,
+    /// Best positive on/off torque per axis (roll, pitch, yaw), N·m.
+    pub best_positive_nm: [f64; 3],
+    /// Best negative on/off torque per axis (magnitudes), N·m.
+    pub best_negative_nm: [f64; 3],
+}
+
+/// The on/off rule in words, the same in every format.
+const ONOFF_RULE: &str = "a row's valve set pushes each commanded axis the commanded way by at \
+least (fraction - comparison_tolerance) * best torque of that axis and sense (and more than \
+noise_floor_nm), and keeps each uncommanded axis within (tolerance + comparison_tolerance) * \
+scale, scale = max(best positive, best negative) of that axis; torques include supply droop \
+with k valves open; of the sets that qualify the least gas wins, gas rates within \
+comparison_tolerance (relative) count as equal, then fewer valves, then the smaller mask; \
+near_miss rows hold the set with the least shortfall";
+
 /// Everything the firmware tables hold, for one layout and flight state.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct FirmwareTables {
@@ -207,6 +234,8 @@ pub struct FirmwareTables {
     pub flight_state: String,
     /// Ports in mask-bit order.
     pub ports: Vec<PortEntry>,
+    /// The rule the on/off rows were chosen by.
+    pub onoff_rule: OnOffRule,
     /// The 27 on/off rows, indexed by [`onoff_row`].
     pub onoff: Vec<OnOffRow>,
     /// Regions of the duty-cycle map, searched in this order.
@@ -360,10 +389,20 @@ pub fn build_tables(
         }
     };
 
+    let best = plan.best_positive.sup(&plan.best_negative);
+    let onoff_rule = OnOffRule {
+        fraction: onoff.fraction,
+        tolerance: onoff.tolerance,
+        comparison_tolerance: tol.onoff_share,
+        noise_floor_nm: tol.onoff_noise * best.max(),
+        best_positive_nm: array3(&plan.best_positive),
+        best_negative_nm: array3(&plan.best_negative),
+    };
     let tables = FirmwareTables {
         layout: names.layout.clone(),
         flight_state: names.flight_state.clone(),
         ports,
+        onoff_rule,
         onoff: rows,
         regions,
         region_slack: tol.region_slack,
@@ -404,6 +443,24 @@ impl FirmwareTables {
             finite(|| format!("ports[{i}].torque_nm"), &p.torque_nm)?;
             finite(|| format!("ports[{i}].mass_flow_kg_s"), &[p.mass_flow_kg_s])?;
         }
+        let rule = &self.onoff_rule;
+        finite(
+            || "onoff_rule".into(),
+            &[
+                rule.fraction,
+                rule.tolerance,
+                rule.comparison_tolerance,
+                rule.noise_floor_nm,
+            ],
+        )?;
+        finite(
+            || "onoff_rule.best_positive_nm".into(),
+            &rule.best_positive_nm,
+        )?;
+        finite(
+            || "onoff_rule.best_negative_nm".into(),
+            &rule.best_negative_nm,
+        )?;
         if self.onoff.len() != ONOFF_ROWS {
             return Err(inconsistent(format!(
                 "{} on/off rows, expected {ONOFF_ROWS}",
@@ -525,6 +582,25 @@ fn outcome_word(o: &OnOffOutcome) -> (&'static str, f64) {
     }
 }
 
+/// Words of `s` in lines of at most `width` characters.
+fn wrap(s: &str, width: usize) -> Vec<String> {
+    let mut lines = Vec::new();
+    let mut line = String::new();
+    for w in s.split_whitespace() {
+        if !line.is_empty() && line.len() + 1 + w.len() > width {
+            lines.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(w);
+    }
+    if !line.is_empty() {
+        lines.push(line);
+    }
+    lines
+}
+
 /// Text safe inside a C block comment: printable ASCII only, no comment end.
 fn comment_text(s: &str) -> String {
     let clean: String = s
@@ -628,6 +704,19 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line(" *                  command (0,0,0), all valves shut. Use pw_onoff_mask().");
     o.line(" *                  outcome PW_ONOFF_NEAR_MISS marks a row where no valve set");
     o.line(" *                  met the thresholds; shortfall says by how much.");
+    o.line(" *                  The rule the rows were chosen by (PW_ONOFF_FRACTION,");
+    o.line(" *                  PW_ONOFF_TOLERANCE, PW_ONOFF_COMPARISON_TOLERANCE,");
+    o.line(" *                  pw_onoff_best_positive_nm and _negative_nm below):");
+    for l in wrap(ONOFF_RULE, 58) {
+        o.line(format!(" *                    {l}"));
+    }
+    let r = &t.onoff_rule;
+    o.line(format!(
+        " *                  Here: fraction {}, tolerance {}, comparison tolerance {}.",
+        num(r.fraction),
+        num(r.tolerance),
+        num(r.comparison_tolerance)
+    ));
     o.line(" *   pw_regions[r]  exact minimum-gas duty cycles, piecewise affine in the");
     o.line(" *                  torque command tau: in region r the duty of port basic[k]");
     o.line(" *                  is sum_j map[k][j]*tau[j] + offset[k] (k = 0, 1, 2), ports");
@@ -723,6 +812,32 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
             o.line("#define PW_GRID_COUNT 0");
         }
     }
+    o.line("");
+    o.line("/* The rule the on/off rows were chosen by (see the comment at the top). */");
+    o.line(format!(
+        "#define PW_ONOFF_FRACTION {}",
+        c_real(t.onoff_rule.fraction)
+    ));
+    o.line(format!(
+        "#define PW_ONOFF_TOLERANCE {}",
+        c_real(t.onoff_rule.tolerance)
+    ));
+    o.line(format!(
+        "#define PW_ONOFF_COMPARISON_TOLERANCE {}",
+        c_real(t.onoff_rule.comparison_tolerance)
+    ));
+    o.line(format!(
+        "#define PW_ONOFF_NOISE_FLOOR_NM {}",
+        c_real(t.onoff_rule.noise_floor_nm)
+    ));
+    o.line(format!(
+        "static const pw_real pw_onoff_best_positive_nm[3] = {}; /* roll, pitch, yaw */",
+        c_reals(&t.onoff_rule.best_positive_nm)
+    ));
+    o.line(format!(
+        "static const pw_real pw_onoff_best_negative_nm[3] = {}; /* magnitudes */",
+        c_reals(&t.onoff_rule.best_negative_nm)
+    ));
     o.line("");
     o.line("/* pw_onoff[row].outcome */");
     o.line("#define PW_ONOFF_ALL_OFF 0");
@@ -1005,12 +1120,16 @@ pub fn render_csv(t: &FirmwareTables) -> String {
     o.line(
         "# Each table starts with a [name] line and a line of column names; a blank line ends it.",
     );
-    o.line("# [summary]  key,value: layout, flight state, port count, region slack (duty), envelope slack (N.m), grid size.");
+    o.line("# [summary]  key,value: layout, flight state, port count, region slack (duty), envelope slack (N.m), the on/off rule, grid size.");
     o.line(
         "# [ports]    index, name, torque at full duty (roll, pitch, yaw), mass flow at full duty.",
     );
     o.line(format!("# [onoff]    {ROW_RULE};"));
     o.line("#            torque and side force (y, z) of the set; outcome all_off, meets or near_miss; shortfall 0 unless near_miss.");
+    o.line("#            rule (values in [summary] as onoff_*):");
+    for l in wrap(ONOFF_RULE, 96) {
+        o.line(format!("#              {l}"));
+    }
     o.line("# [regions]  region, basic ports b0 b1 b2, full_on_mask (ports at duty 1), m_kj = row k column j of M, offset_k:");
     o.line("#            duty of port b_k = m_k0*roll + m_k1*pitch + m_k2*yaw + offset_k; the region holds the command when");
     o.line("#            these three duties lie in [0, 1] (its six inequalities); search regions in order.");
@@ -1026,6 +1145,24 @@ pub fn render_csv(t: &FirmwareTables) -> String {
     o.line(format!("port_count,{n}"));
     o.line(format!("region_slack,{}", num(t.region_slack)));
     o.line(format!("envelope_slack_nm,{}", num(t.envelope.slack_nm)));
+    let r = &t.onoff_rule;
+    o.line(format!("onoff_fraction,{}", num(r.fraction)));
+    o.line(format!("onoff_tolerance,{}", num(r.tolerance)));
+    o.line(format!(
+        "onoff_comparison_tolerance,{}",
+        num(r.comparison_tolerance)
+    ));
+    o.line(format!("onoff_noise_floor_nm,{}", num(r.noise_floor_nm)));
+    for (a, axis) in ["roll", "pitch", "yaw"].iter().enumerate() {
+        o.line(format!(
+            "onoff_best_positive_{axis}_nm,{}",
+            num(r.best_positive_nm[a])
+        ));
+        o.line(format!(
+            "onoff_best_negative_{axis}_nm,{}",
+            num(r.best_negative_nm[a])
+        ));
+    }
     if let Some(g) = &t.grid {
         o.line(format!("grid_points_per_axis,{}", g.points_per_axis));
         for (a, axis) in ["roll", "pitch", "yaw"].iter().enumerate() {
@@ -1119,6 +1256,7 @@ struct JsonDocument<'a> {
     frame: &'static str,
     units: &'static str,
     onoff_rows: &'static str,
+    onoff_rule_words: &'static str,
     regions_rule: &'static str,
     envelope_rule: &'static str,
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -1138,6 +1276,7 @@ pub fn render_json(t: &FirmwareTables) -> Result<String, FirmwareError> {
         frame: FRAME,
         units: UNITS,
         onoff_rows: ROW_RULE,
+        onoff_rule_words: ONOFF_RULE,
         regions_rule: "duty of port basic[k] = map[k] . tau + offset[k]; ports in full_on_mask \
 at 1, others 0; the region holds tau when the three basic duties lie in [0, 1]; \
 search regions in order",
@@ -1346,6 +1485,43 @@ mod tests {
         assert_eq!(section("grid").len(), 8);
         // The layout name holds a quote: the field is quoted and the quote doubled.
         assert!(text.contains("layout,\"test \"\"six\"\"\""));
+    }
+
+    #[test]
+    fn every_format_states_the_onoff_rule() {
+        // The rule (fraction, tolerance, comparison tolerance) travels with the
+        // rows in all three formats, with the values the rows were chosen by.
+        let tol = Tolerances::default();
+        let opts = OnOffOptions {
+            fraction: 0.4,
+            tolerance: 0.2,
+            ..OnOffOptions::default()
+        };
+        let t = build_tables(&six_ports(), &names(), &opts, &|_| 1.0, &tol, None).expect("builds");
+        assert_eq!(t.onoff_rule.fraction, 0.4);
+        assert_eq!(t.onoff_rule.tolerance, 0.2);
+        assert_eq!(t.onoff_rule.comparison_tolerance, tol.onoff_share);
+        let h = render_c_header(&t).expect("renders");
+        assert!(h.contains("#define PW_ONOFF_FRACTION PW_R(4e-1)"));
+        assert!(h.contains("#define PW_ONOFF_TOLERANCE PW_R(2e-1)"));
+        assert!(h.contains("#define PW_ONOFF_COMPARISON_TOLERANCE PW_R(1e-9)"));
+        assert!(h.contains("Here: fraction 4e-1, tolerance 2e-1, comparison tolerance 1e-9."));
+        let csv = render_csv(&t);
+        for line in [
+            "onoff_fraction,4e-1",
+            "onoff_tolerance,2e-1",
+            "onoff_comparison_tolerance,1e-9",
+        ] {
+            assert!(csv.lines().any(|l| l == line), "{line}");
+        }
+        assert!(csv.contains("rule (values in [summary] as onoff_*)"));
+        let json: serde_json::Value =
+            serde_json::from_str(&render_json(&t).expect("renders")).expect("parses");
+        assert_eq!(json["onoff_rule"]["fraction"], 0.4);
+        assert_eq!(json["onoff_rule"]["comparison_tolerance"], 1e-9);
+        assert!(json["onoff_rule_words"]
+            .as_str()
+            .is_some_and(|w| w.contains("fewer valves")));
     }
 
     #[test]

@@ -24,6 +24,21 @@
  *                  command (0,0,0), all valves shut. Use pw_onoff_mask().
  *                  outcome PW_ONOFF_NEAR_MISS marks a row where no valve set
  *                  met the thresholds; shortfall says by how much.
+ *                  The rule the rows were chosen by (PW_ONOFF_FRACTION,
+ *                  PW_ONOFF_TOLERANCE, PW_ONOFF_COMPARISON_TOLERANCE,
+ *                  pw_onoff_best_positive_nm and _negative_nm below):
+ *                    a row's valve set pushes each commanded axis the commanded
+ *                    way by at least (fraction - comparison_tolerance) * best
+ *                    torque of that axis and sense (and more than
+ *                    noise_floor_nm), and keeps each uncommanded axis within
+ *                    (tolerance + comparison_tolerance) * scale, scale =
+ *                    max(best positive, best negative) of that axis; torques
+ *                    include supply droop with k valves open; of the sets that
+ *                    qualify the least gas wins, gas rates within
+ *                    comparison_tolerance (relative) count as equal, then fewer
+ *                    valves, then the smaller mask; near_miss rows hold the set
+ *                    with the least shortfall
+ *                  Here: fraction 5e-1, tolerance 1e-1, comparison tolerance 1e-9.
  *   pw_regions[r]  exact minimum-gas duty cycles, piecewise affine in the
  *                  torque command tau: in region r the duty of port basic[k]
  *                  is sum_j map[k][j]*tau[j] + offset[k] (k = 0, 1, 2), ports
@@ -82,6 +97,14 @@ typedef double pw_real;
 #define PW_GRID_POINTS_PER_AXIS 2
 #define PW_GRID_COUNT 8
 
+/* The rule the on/off rows were chosen by (see the comment at the top). */
+#define PW_ONOFF_FRACTION PW_R(5e-1)
+#define PW_ONOFF_TOLERANCE PW_R(1e-1)
+#define PW_ONOFF_COMPARISON_TOLERANCE PW_R(1e-9)
+#define PW_ONOFF_NOISE_FLOOR_NM PW_R(1.0992640687119287e-9)
+static const pw_real pw_onoff_best_positive_nm[3] = {PW_R(2.7e-2), PW_R(1.0992640687119286e0), PW_R(1.0992640687119286e0)}; /* roll, pitch, yaw */
+static const pw_real pw_onoff_best_negative_nm[3] = {PW_R(2.7000000000000003e-2), PW_R(6.750000000000002e-1), PW_R(6.750000000000002e-1)}; /* magnitudes */
+
 /* pw_onoff[row].outcome */
 #define PW_ONOFF_ALL_OFF 0
 #define PW_ONOFF_MEETS 1
@@ -139,19 +162,19 @@ static const pw_onoff_entry pw_onoff[PW_ONOFF_ROWS] = {
     /* 0: command (-1, -1, -1), meets */
     {{-1, -1, -1}, UINT32_C(0x00000026), {PW_R(-2.7000000000000003e-2), PW_R(-4.628679656440359e-1), PW_R(-4.628679656440358e-1)}, {PW_R(7.928932188134525e-1), PW_R(-7.928932188134525e-1)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 1: command (-1, -1, 0), near_miss */
-    {{-1, -1, 0}, UINT32_C(0x00000022), {PW_R(-2.7000000000000003e-2), PW_R(-4.6286796564403576e-1), PW_R(2.1213203435596426e-1)}, {PW_R(-7.071067811865476e-1), PW_R(-7.928932188134523e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766754e-2)},
+    {{-1, -1, 0}, UINT32_C(0x00000022), {PW_R(-2.7000000000000003e-2), PW_R(-4.6286796564403576e-1), PW_R(2.1213203435596426e-1)}, {PW_R(-7.071067811865476e-1), PW_R(-7.928932188134523e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766754e-2)},
     /* 2: command (-1, -1, 1), meets */
     {{-1, -1, 1}, UINT32_C(0x00000023), {PW_R(-2.7000000000000003e-2), PW_R(-4.6286796564403576e-1), PW_R(8.871320343559643e-1)}, {PW_R(-2.2071067811865475e0), PW_R(-7.928932188134523e-1)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 3: command (-1, 0, -1), near_miss */
-    {{-1, 0, -1}, UINT32_C(0x00000024), {PW_R(-2.7000000000000003e-2), PW_R(2.1213203435596423e-1), PW_R(-4.628679656440358e-1)}, {PW_R(7.928932188134525e-1), PW_R(7.071067811865475e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766751e-2)},
+    {{-1, 0, -1}, UINT32_C(0x00000024), {PW_R(-2.7000000000000003e-2), PW_R(2.1213203435596423e-1), PW_R(-4.628679656440358e-1)}, {PW_R(7.928932188134525e-1), PW_R(7.071067811865475e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766751e-2)},
     /* 4: command (-1, 0, 0), near_miss */
-    {{-1, 0, 0}, UINT32_C(0x0000002F), {PW_R(-2.7000000000000003e-2), PW_R(2.121320343559642e-1), PW_R(2.1213203435596412e-1)}, {PW_R(-7.071067811865472e-1), PW_R(7.071067811865475e-1)}, PW_R(1.5862252201878885e-2), PW_ONOFF_NEAR_MISS, PW_R(1.8595281933533492e-1)},
+    {{-1, 0, 0}, UINT32_C(0x00000020), {PW_R(-2.7000000000000003e-2), PW_R(2.121320343559643e-1), PW_R(2.1213203435596423e-1)}, {PW_R(-7.071067811865475e-1), PW_R(7.071067811865477e-1)}, PW_R(2.2660360288398406e-3), PW_ONOFF_NEAR_MISS, PW_R(1.8595281733533509e-1)},
     /* 5: command (-1, 0, 1), near_miss */
-    {{-1, 0, 1}, UINT32_C(0x00000021), {PW_R(-2.7000000000000003e-2), PW_R(2.121320343559643e-1), PW_R(8.871320343559643e-1)}, {PW_R(-2.2071067811865475e0), PW_R(7.071067811865477e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766758e-2)},
+    {{-1, 0, 1}, UINT32_C(0x00000021), {PW_R(-2.7000000000000003e-2), PW_R(2.121320343559643e-1), PW_R(8.871320343559643e-1)}, {PW_R(-2.2071067811865475e0), PW_R(7.071067811865477e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766758e-2)},
     /* 6: command (-1, 1, -1), meets */
     {{-1, 1, -1}, UINT32_C(0x0000002C), {PW_R(-2.7000000000000003e-2), PW_R(8.871320343559642e-1), PW_R(-4.6286796564403593e-1)}, {PW_R(7.928932188134528e-1), PW_R(2.2071067811865475e0)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 7: command (-1, 1, 0), near_miss */
-    {{-1, 1, 0}, UINT32_C(0x0000002D), {PW_R(-2.7000000000000003e-2), PW_R(8.871320343559642e-1), PW_R(2.1213203435596412e-1)}, {PW_R(-7.071067811865472e-1), PW_R(2.2071067811865475e0)}, PW_R(1.2463198158619125e-2), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766742e-2)},
+    {{-1, 1, 0}, UINT32_C(0x00000028), {PW_R(-2.7000000000000003e-2), PW_R(8.871320343559643e-1), PW_R(2.1213203435596412e-1)}, {PW_R(-7.071067811865472e-1), PW_R(2.207106781186548e0)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766742e-2)},
     /* 8: command (-1, 1, 1), meets */
     {{-1, 1, 1}, UINT32_C(0x00000029), {PW_R(-2.7000000000000003e-2), PW_R(8.871320343559643e-1), PW_R(8.871320343559641e-1)}, {PW_R(-2.207106781186547e0), PW_R(2.207106781186548e0)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 9: command (0, -1, -1), meets */
@@ -175,19 +198,19 @@ static const pw_onoff_entry pw_onoff[PW_ONOFF_ROWS] = {
     /* 18: command (1, -1, -1), meets */
     {{1, -1, -1}, UINT32_C(0x00000016), {PW_R(2.7e-2), PW_R(-4.628679656440359e-1), PW_R(-4.628679656440358e-1)}, {PW_R(7.928932188134525e-1), PW_R(-7.928932188134526e-1)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 19: command (1, -1, 0), near_miss */
-    {{1, -1, 0}, UINT32_C(0x00000012), {PW_R(2.7e-2), PW_R(-4.6286796564403576e-1), PW_R(2.1213203435596426e-1)}, {PW_R(-7.071067811865476e-1), PW_R(-7.928932188134524e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766754e-2)},
+    {{1, -1, 0}, UINT32_C(0x00000012), {PW_R(2.7e-2), PW_R(-4.6286796564403576e-1), PW_R(2.1213203435596426e-1)}, {PW_R(-7.071067811865476e-1), PW_R(-7.928932188134524e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766754e-2)},
     /* 20: command (1, -1, 1), meets */
     {{1, -1, 1}, UINT32_C(0x00000013), {PW_R(2.7e-2), PW_R(-4.6286796564403576e-1), PW_R(8.871320343559643e-1)}, {PW_R(-2.2071067811865475e0), PW_R(-7.928932188134524e-1)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 21: command (1, 0, -1), near_miss */
-    {{1, 0, -1}, UINT32_C(0x00000014), {PW_R(2.7e-2), PW_R(2.1213203435596417e-1), PW_R(-4.628679656440358e-1)}, {PW_R(7.928932188134525e-1), PW_R(7.071067811865474e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766746e-2)},
+    {{1, 0, -1}, UINT32_C(0x00000014), {PW_R(2.7e-2), PW_R(2.1213203435596417e-1), PW_R(-4.628679656440358e-1)}, {PW_R(7.928932188134525e-1), PW_R(7.071067811865474e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766746e-2)},
     /* 22: command (1, 0, 0), near_miss */
-    {{1, 0, 0}, UINT32_C(0x0000001F), {PW_R(2.7e-2), PW_R(2.1213203435596414e-1), PW_R(2.1213203435596412e-1)}, {PW_R(-7.071067811865472e-1), PW_R(7.071067811865474e-1)}, PW_R(1.5862252201878885e-2), PW_ONOFF_NEAR_MISS, PW_R(1.8595281933533486e-1)},
+    {{1, 0, 0}, UINT32_C(0x00000010), {PW_R(2.7e-2), PW_R(2.1213203435596426e-1), PW_R(2.1213203435596423e-1)}, {PW_R(-7.071067811865475e-1), PW_R(7.071067811865476e-1)}, PW_R(2.2660360288398406e-3), PW_ONOFF_NEAR_MISS, PW_R(1.8595281733533506e-1)},
     /* 23: command (1, 0, 1), near_miss */
-    {{1, 0, 1}, UINT32_C(0x00000011), {PW_R(2.7e-2), PW_R(2.1213203435596426e-1), PW_R(8.871320343559643e-1)}, {PW_R(-2.2071067811865475e0), PW_R(7.071067811865476e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766754e-2)},
+    {{1, 0, 1}, UINT32_C(0x00000011), {PW_R(2.7e-2), PW_R(2.1213203435596426e-1), PW_R(8.871320343559643e-1)}, {PW_R(-2.2071067811865475e0), PW_R(7.071067811865476e-1)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766754e-2)},
     /* 24: command (1, 1, -1), meets */
     {{1, 1, -1}, UINT32_C(0x0000001C), {PW_R(2.7e-2), PW_R(8.871320343559642e-1), PW_R(-4.6286796564403593e-1)}, {PW_R(7.928932188134528e-1), PW_R(2.2071067811865475e0)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
     /* 25: command (1, 1, 0), near_miss */
-    {{1, 1, 0}, UINT32_C(0x0000001D), {PW_R(2.7e-2), PW_R(8.871320343559642e-1), PW_R(2.1213203435596412e-1)}, {PW_R(-7.071067811865472e-1), PW_R(2.2071067811865475e0)}, PW_R(1.2463198158619125e-2), PW_ONOFF_NEAR_MISS, PW_R(9.297640966766742e-2)},
+    {{1, 1, 0}, UINT32_C(0x00000018), {PW_R(2.7e-2), PW_R(8.871320343559643e-1), PW_R(2.1213203435596412e-1)}, {PW_R(-7.071067811865472e-1), PW_R(2.2071067811865475e0)}, PW_R(5.665090072099602e-3), PW_ONOFF_NEAR_MISS, PW_R(9.297640866766742e-2)},
     /* 26: command (1, 1, 1), meets */
     {{1, 1, 1}, UINT32_C(0x00000019), {PW_R(2.7e-2), PW_R(8.871320343559643e-1), PW_R(8.871320343559641e-1)}, {PW_R(-2.207106781186547e0), PW_R(2.2071067811865475e0)}, PW_R(9.064144115359362e-3), PW_ONOFF_MEETS, PW_R(0e0)},
 };

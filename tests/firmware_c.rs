@@ -64,6 +64,27 @@ fn eight_ports() -> Effectiveness {
     Effectiveness::from_ports(&ports).expect("valid ports")
 }
 
+/// A pitch/yaw-only vehicle: four radial ports 0.45 m aft of the CG at clock
+/// 20° + k·90° with unequal thrusts (1.2 to 1.8 N) and a fifth 0.25 m aft, so the
+/// duty-cycle map lives on pitch and yaw only and its regions differ in shape.
+fn pitch_yaw_ports() -> Effectiveness {
+    let ports: Vec<PortGeometry> = (0..5)
+        .map(|k| {
+            let a = 20f64.to_radians() + k as f64 * FRAC_PI_2 + if k == 4 { 0.6 } else { 0.0 };
+            let station = if k == 4 { -0.25 } else { -0.45 };
+            let thrust = 1.2 + 0.15 * k as f64;
+            PortGeometry {
+                name: format!("radial-{k}"),
+                position_m: Vector3::new(station, RADIUS * a.cos(), RADIUS * a.sin()),
+                direction: -Vector3::new(0.0, a.cos(), a.sin()),
+                thrust_n: thrust,
+                mass_flow_kg_s: thrust / (45.0 * G0),
+            }
+        })
+        .collect();
+    Effectiveness::from_ports(&ports).expect("valid ports")
+}
+
 /// The small fixed case of the golden files: four radial ports and two roll ports.
 fn six_ports() -> Effectiveness {
     let mut ports: Vec<PortGeometry> = (0..4)
@@ -261,10 +282,10 @@ fn parse_duties(out: &str) -> Vec<Duty> {
 
 /// Runs the C evaluation (double or float) and checks it against the engine.
 /// `duty_tol` is the absolute agreement asked of the duty cycles.
-fn check_c_against_engine(float: bool, duty_tol: f64) {
-    let e = eight_ports();
+fn check_c_against_engine(e: &Effectiveness, float: bool, duty_tol: f64) {
+    let e = e.clone();
     let tol = Tolerances::default();
-    let tables = tables_for(&e, "eight-port test layout", Some(5));
+    let tables = tables_for(&e, "test layout", Some(5));
     let dir = tempfile::tempdir().expect("temp dir");
     std::fs::write(
         dir.path().join("tables.h"),
@@ -284,6 +305,9 @@ fn check_c_against_engine(float: bool, duty_tol: f64) {
     let (mut inside, mut outside) = (0, 0);
     for (i, (tau, c)) in cmds.iter().zip(&got).enumerate() {
         let from_map = map.evaluate(tau).expect("covered");
+        // The map and the C code follow only the axes the ports span (all three for
+        // the eight-port case); the simplex is given the command on those axes.
+        let tau = &map.spanned(tau);
         let from_lp = lp.allocate(tau).expect("solves");
         let exact = from_lp.status == AllocationStatus::Exact;
         assert_eq!(c.status, if exact { 0 } else { 1 }, "command {i} {tau:?}");
@@ -375,14 +399,29 @@ fn check_c_against_engine(float: bool, duty_tol: f64) {
 fn double_header_matches_the_engine() {
     // Double: the same arithmetic as the Rust map up to the order of a few sums,
     // so 1e-9 is generous; it is the region slack, the largest legitimate gap.
-    check_c_against_engine(false, 1e-9);
+    check_c_against_engine(&eight_ports(), false, 1e-9);
 }
 
 #[test]
 fn float_header_matches_the_engine() {
     // Float: 7 significant digits on duties of order one, each a sum of three
     // products; 1e-5 leaves two orders of magnitude for rounding.
-    check_c_against_engine(true, 1e-5);
+    check_c_against_engine(&eight_ports(), true, 1e-5);
+}
+
+#[test]
+fn pitch_yaw_header_matches_the_engine() {
+    // The two-axis map: same tolerances as the three-axis case, both precisions;
+    // commands with a roll part are evaluated on pitch and yaw alone by both sides.
+    check_c_against_engine(&pitch_yaw_ports(), false, 1e-9);
+    check_c_against_engine(&pitch_yaw_ports(), true, 1e-5);
+    let t = tables_for(&pitch_yaw_ports(), "two-axis", None);
+    assert_eq!(t.map_axes, ["pitch", "yaw"]);
+    let h = render_c_header(&t).expect("renders");
+    assert!(h.contains("#define PW_BASIC_COUNT 2"));
+    assert!(h.contains("#define PW_MAP_ROLL 0"));
+    assert!(h.contains("pitch and yaw only"));
+    assert!(render_csv(&t).contains("\nmap_axes,pitch yaw\n"));
 }
 
 fn golden_dir() -> PathBuf {

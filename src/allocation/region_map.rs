@@ -22,6 +22,18 @@
 //!
 //! Outside the envelope the command is scaled down along its direction to the
 //! zonotope boundary (ray intersection with the facets), as the allocator does.
+//!
+//! Fewer than three axes. A vehicle without roll jets (or with roll jets only)
+//! has torque columns that span only some of the body axes. The map is then built
+//! on the axes the ports span ([`RegionMap::axes`]): a basis is as many ports as
+//! there are spanned axes, each region a parallelogram (or a segment) in those
+//! axes, and the components of a command on the other axes are dropped before the
+//! map is evaluated, since no port can produce them. To keep one shape for every
+//! case, a basis of r < 3 ports is padded with the unit vectors of the unspanned
+//! axes; the rows of M that belong to the padding are set to zero. The spanned
+//! axes are those whose torque row is not zero to the rank threshold; rows below
+//! that threshold are set to exactly zero. When the columns span a plane or line
+//! that is not made of body axes (a tilted span), the map is refused.
 
 use super::zonotope::{Zonotope, ZonotopeError};
 use super::{Allocation, AllocationStatus, Effectiveness, Tolerances};
@@ -31,9 +43,20 @@ use thiserror::Error;
 /// Problems building or using the region map.
 #[derive(Debug, Error, Clone, PartialEq)]
 pub enum RegionMapError {
-    /// The torque columns do not span three dimensions, so no port triple is a basis.
-    #[error("the port torques span only {0} axes; the region map needs all 3")]
-    RankDeficient(usize),
+    /// No port makes any torque.
+    #[error("no port makes any torque, so there is no duty-cycle map")]
+    NoTorque,
+    /// The torque columns span directions that are not body axes.
+    #[error(
+        "the port torques span {rank} directions that are not body axes (the {axes} rows \
+         are not zero); the duty-cycle map needs ports that span whole body axes"
+    )]
+    TiltedSpan {
+        /// Rank of the torque columns.
+        rank: usize,
+        /// The axes with a non-zero torque row, in words.
+        axes: String,
+    },
     /// The zonotope could not be built.
     #[error(transparent)]
     Zonotope(#[from] ZonotopeError),
@@ -49,9 +72,10 @@ pub enum RegionMapError {
 /// One region of constant optimal basis.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Region {
-    /// The three basic (fractional) ports.
-    pub ports: [usize; 3],
-    /// M = B_β⁻¹: duty of the basic ports is M τ + `offset`.
+    /// The basic (fractional) ports, one per spanned axis.
+    pub ports: Vec<usize>,
+    /// M = B_β⁻¹: duty of basic port k is row k of M times τ plus `offset`[k];
+    /// rows beyond the basic ports, and columns of unspanned axes, are zero.
     pub map: Matrix3<f64>,
     /// m = −M Σ_{j at 1} bⱼ.
     pub offset: Vector3<f64>,
@@ -60,10 +84,12 @@ pub struct Region {
     /// Reduced cost of every port (zero for the basic ones), kg/s per unit duty:
     /// the optimality certificate. Negative for `full_on`, otherwise ≥ 0.
     pub reduced_costs: Vec<f64>,
+    /// |det B_β| over the spanned axes.
+    volume: f64,
 }
 
 impl Region {
-    /// Duty cycles of the three basic ports for command `tau`.
+    /// Duty cycles of the basic ports for command `tau` (zero beyond them).
     pub fn basic_duty(&self, tau: &Vector3<f64>) -> Vector3<f64> {
         self.map * tau + self.offset
     }
@@ -84,9 +110,10 @@ impl Region {
         )
     }
 
-    /// Volume of the region in torque space, |det B_β| (N·m)³.
+    /// Volume of the region in the spanned axes, |det B_β| ((N·m)³, or area
+    /// (N·m)² and length N·m with fewer axes).
     pub fn volume(&self) -> f64 {
-        1.0 / self.map.determinant().abs()
+        self.volume
     }
 
     fn contains(&self, tau: &Vector3<f64>, slack: f64) -> bool {
@@ -99,9 +126,39 @@ impl Region {
 #[derive(Debug, Clone)]
 pub struct RegionMap {
     e: Effectiveness,
+    axes: Vec<usize>,
     zonotope: Zonotope,
     regions: Vec<Region>,
     tol: Tolerances,
+}
+
+/// Axis indices in words ("pitch and yaw").
+pub fn axis_words(axes: &[usize]) -> String {
+    let names: Vec<&str> = axes.iter().map(|&a| ["roll", "pitch", "yaw"][a]).collect();
+    match names.len() {
+        0 => "no".to_string(),
+        1 => names[0].to_string(),
+        k => format!("{} and {}", names[..k - 1].join(", "), names[k - 1]),
+    }
+}
+
+/// Every ascending choice of `k` of `0..n`, in lexicographic order.
+fn combinations(n: usize, k: usize) -> Vec<Vec<usize>> {
+    let mut out = Vec::new();
+    let mut pick: Vec<usize> = (0..k).collect();
+    if k == 0 || k > n {
+        return out;
+    }
+    loop {
+        out.push(pick.clone());
+        let Some(i) = (0..k).rev().find(|&i| pick[i] < n - k + i) else {
+            return out;
+        };
+        pick[i] += 1;
+        for j in i + 1..k {
+            pick[j] = pick[j - 1] + 1;
+        }
+    }
 }
 
 /// Deterministic tie-break weights: fractional parts of multiples of the golden
@@ -111,66 +168,101 @@ fn tie_weight(j: usize) -> f64 {
 }
 
 impl RegionMap {
-    /// Enumerates every independent port triple and its optimal region.
+    /// Enumerates every basis (one port per spanned axis) and its optimal region.
     pub fn new(e: &Effectiveness, tol: &Tolerances) -> Result<Self, RegionMapError> {
-        let zonotope = Zonotope::torque(e, tol)?;
-        if zonotope.rank() < 3 {
-            return Err(RegionMapError::RankDeficient(zonotope.rank()));
+        let full = Zonotope::torque(e, tol)?;
+        let rank = full.rank();
+        if rank == 0 {
+            return Err(RegionMapError::NoTorque);
         }
+        let floor = tol.rank * full.scale();
+        let axes: Vec<usize> = (0..3)
+            .filter(|&a| e.torque().row(a).amax() > floor)
+            .collect();
+        if axes.len() != rank {
+            return Err(RegionMapError::TiltedSpan {
+                rank,
+                axes: axis_words(&axes),
+            });
+        }
+        let mut b = e.torque().clone();
+        for a in (0..3).filter(|a| !axes.contains(a)) {
+            b.row_mut(a).fill(0.0);
+        }
+        let zonotope = Zonotope::new(b.clone(), tol)?;
+        let padding: Vec<Vector3<f64>> = (0..3)
+            .filter(|a| !axes.contains(a))
+            .map(|a| {
+                let mut v = Vector3::zeros();
+                v[a] = 1.0;
+                v
+            })
+            .collect();
         let n = e.len();
-        let b = e.torque();
         let c = e.mass_flow_kg_s();
-        let det_floor = tol.rank * zonotope.scale().powi(3);
+        let det_floor = tol.rank * zonotope.scale().powi(rank as i32);
         let cost_floor = tol.optimality * c.max().max(f64::MIN_POSITIVE);
         let mut regions = Vec::new();
-        for i in 0..n {
-            for j in i + 1..n {
-                for k in j + 1..n {
-                    let bb = Matrix3::from_columns(&[b.column(i), b.column(j), b.column(k)]);
-                    if bb.determinant().abs() <= det_floor {
-                        continue;
-                    }
-                    let Some(m) = bb.try_inverse() else { continue };
-                    let ports = [i, j, k];
-                    let y = m.transpose() * Vector3::new(c[i], c[j], c[k]);
-                    let yw =
-                        m.transpose() * Vector3::new(tie_weight(i), tie_weight(j), tie_weight(k));
-                    let mut full_on = Vec::new();
-                    let mut reduced = vec![0.0; n];
-                    let mut sum_on = Vector3::zeros();
-                    for l in 0..n {
-                        if ports.contains(&l) {
-                            continue;
-                        }
-                        let bl = b.column(l);
-                        let d = c[l] - y.dot(&bl);
-                        reduced[l] = d;
-                        let on = if d.abs() > cost_floor {
-                            d < 0.0
-                        } else {
-                            tie_weight(l) - yw.dot(&bl) < 0.0
-                        };
-                        if on {
-                            full_on.push(l);
-                            sum_on += bl;
-                        }
-                    }
-                    regions.push(Region {
-                        ports,
-                        map: m,
-                        offset: -(m * sum_on),
-                        full_on,
-                        reduced_costs: reduced,
-                    });
+        for ports in combinations(n, rank) {
+            let mut cols: Vec<Vector3<f64>> = ports.iter().map(|&i| b.column(i).into()).collect();
+            cols.extend(padding.iter().copied());
+            let bb = Matrix3::from_columns(&cols);
+            if bb.determinant().abs() <= det_floor {
+                continue;
+            }
+            let Some(mut m) = bb.try_inverse() else {
+                continue;
+            };
+            for k in rank..3 {
+                m.row_mut(k).fill(0.0);
+            }
+            let basic_costs = Vector3::from_fn(|k, _| if k < rank { c[ports[k]] } else { 0.0 });
+            let basic_ties =
+                Vector3::from_fn(|k, _| if k < rank { tie_weight(ports[k]) } else { 0.0 });
+            let y = m.transpose() * basic_costs;
+            let yw = m.transpose() * basic_ties;
+            let mut full_on = Vec::new();
+            let mut reduced = vec![0.0; n];
+            let mut sum_on = Vector3::zeros();
+            for l in 0..n {
+                if ports.contains(&l) {
+                    continue;
+                }
+                let bl = b.column(l);
+                let d = c[l] - y.dot(&bl);
+                reduced[l] = d;
+                let on = if d.abs() > cost_floor {
+                    d < 0.0
+                } else {
+                    tie_weight(l) - yw.dot(&bl) < 0.0
+                };
+                if on {
+                    full_on.push(l);
+                    sum_on += bl;
                 }
             }
+            regions.push(Region {
+                ports,
+                map: m,
+                offset: -(m * sum_on),
+                full_on,
+                reduced_costs: reduced,
+                volume: bb.determinant().abs(),
+            });
         }
         Ok(Self {
             e: e.clone(),
+            axes,
             zonotope,
             regions,
             tol: tol.clone(),
         })
+    }
+
+    /// The body axes the map follows (0 roll, 1 pitch, 2 yaw), ascending; all three
+    /// unless the ports span fewer. Command components on other axes are dropped.
+    pub fn axes(&self) -> &[usize] {
+        &self.axes
     }
 
     /// All regions.
@@ -178,7 +270,8 @@ impl RegionMap {
         &self.regions
     }
 
-    /// The torque zonotope used for scaling outside the envelope.
+    /// The torque zonotope used for scaling outside the envelope (of the port
+    /// torques with the rows of unspanned axes set to zero).
     pub fn zonotope(&self) -> &Zonotope {
         &self.zonotope
     }
@@ -202,8 +295,14 @@ impl RegionMap {
             .collect()
     }
 
+    /// `tau` with the components on unspanned axes set to zero.
+    pub fn spanned(&self, tau: &Vector3<f64>) -> Vector3<f64> {
+        Vector3::from_fn(|a, _| if self.axes.contains(&a) { tau[a] } else { 0.0 })
+    }
+
     /// Least-gas duty cycles for `tau` from the map, scaling down along the
-    /// command direction when it is out of reach.
+    /// command direction when it is out of reach. Components of `tau` on axes
+    /// the ports do not span are dropped first (see [`Self::axes`]).
     pub fn evaluate(&self, tau: &Vector3<f64>) -> Result<Allocation, RegionMapError> {
         let mut out = Allocation::with_ports(self.e.len());
         self.evaluate_into(tau, &mut out)?;
@@ -219,6 +318,7 @@ impl RegionMap {
         if tau.iter().any(|v| !v.is_finite()) {
             return Err(RegionMapError::BadCommand);
         }
+        let tau = &self.spanned(tau);
         let (target, scale, status) = if self.zonotope.contains(tau) {
             (*tau, 1.0, AllocationStatus::Exact)
         } else {
@@ -341,25 +441,99 @@ mod tests {
         }
     }
 
-    #[test]
-    fn flat_layout_is_refused() {
-        let ports: Vec<_> = (0..4)
+    /// Four radial ports 0.5 m aft of the CG (pitch and yaw only, see zonotope.rs)
+    /// and, when `skew` is set, a fifth port 0.3 m aft with a different thrust so
+    /// the map has regions of unequal shape.
+    fn pitch_yaw_ports(skew: bool) -> Effectiveness {
+        let mut ports: Vec<_> = (0..4)
             .map(|k| {
-                let a = k as f64 * std::f64::consts::FRAC_PI_2;
+                let a = k as f64 * std::f64::consts::FRAC_PI_2 + 0.3;
+                let radial = Vector3::new(0.0, a.cos(), a.sin());
                 port_at(
-                    "r",
+                    &format!("r{k}"),
                     -0.5,
                     0.027,
                     a,
-                    -Vector3::new(0.0, a.cos(), a.sin()),
-                    1.0,
+                    -radial,
+                    1.0 + 0.2 * k as f64,
                 )
             })
             .collect();
+        if skew {
+            let a = 2.0_f64;
+            let radial = Vector3::new(0.0, a.cos(), a.sin());
+            ports.push(port_at("r4", -0.3, 0.027, a, -radial, 0.7));
+        }
+        Effectiveness::from_ports(&ports).expect("valid")
+    }
+
+    #[test]
+    fn pitch_yaw_layout_gets_a_map_on_its_two_axes() {
+        // Radial ports make no roll: the map follows pitch and yaw. Completeness by
+        // area: the tiles |det B_β| (2×2) add up to the zonogon's area, Σ over pairs
+        // |det(bᵢ, bⱼ)| (the planar zonotope area formula), to 1e-12. Optimality
+        // against the simplex on the same commands without their roll part, which the
+        // map drops: gas and scale to 1e-9 as in the three-axis case.
+        for skew in [false, true] {
+            let e = pitch_yaw_ports(skew);
+            let tol = Tolerances::default();
+            let map = RegionMap::new(&e, &tol).expect("builds");
+            assert_eq!(map.axes(), &[1, 2]);
+            let b = e.torque();
+            let mut area = 0.0;
+            for i in 0..e.len() {
+                for j in i + 1..e.len() {
+                    area += (b[(1, i)] * b[(2, j)] - b[(2, i)] * b[(1, j)]).abs();
+                }
+            }
+            assert_relative_eq!(map.covered_volume(), area, max_relative = 1e-12);
+            assert!(map.regions().iter().all(|r| r.ports.len() == 2));
+            let mut alloc = MinGasAllocator::new(&e, SideForceLimit::Free, &tol).expect("setup");
+            let mut rng = Rng(40);
+            for _ in 0..200 {
+                let roll = rng.range(-1.0, 1.0);
+                let tau = inside_command(&mut rng, &e) * rng.range(0.0, 1.4)
+                    + Vector3::new(roll, 0.0, 0.0);
+                let got = map.evaluate(&tau).expect("covered");
+                let want = alloc.allocate(&map.spanned(&tau)).expect("solves");
+                assert_eq!(got.status, want.status);
+                assert_relative_eq!(got.scale, want.scale, max_relative = 1e-9);
+                assert_relative_eq!(
+                    got.gas_rate_kg_s,
+                    want.gas_rate_kg_s,
+                    max_relative = 1e-9,
+                    epsilon = 1e-15
+                );
+                let reach = map.spanned(&tau) * got.scale;
+                assert!((got.torque - reach).norm() <= 1e-9 * map.zonotope().scale());
+            }
+        }
+    }
+
+    #[test]
+    fn tilted_span_is_refused() {
+        // Four radial ports at one station span pitch and yaw. Rotating every
+        // position and exhaust rigidly by 0.2 rad about +y rotates their torques the
+        // same way, so they span a plane tilted out of pitch–yaw: all three rows are
+        // non-zero but the rank is 2, and no pair of body axes describes the span.
+        let ports: Vec<_> = (0..4)
+            .map(|k| {
+                let a = k as f64 * std::f64::consts::FRAC_PI_2;
+                let dir = -Vector3::new(0.0, a.cos(), a.sin());
+                let mut p = port_at("r", -0.5, 0.027, a, dir, 1.0);
+                let rot = nalgebra::Rotation3::from_axis_angle(&Vector3::y_axis(), 0.2);
+                p.position_m = rot * p.position_m;
+                p.direction = rot * p.direction;
+                p
+            })
+            .collect();
         let e = Effectiveness::from_ports(&ports).expect("valid");
-        assert_eq!(
+        assert!(matches!(
             RegionMap::new(&e, &Tolerances::default()).err(),
-            Some(RegionMapError::RankDeficient(2))
-        );
+            Some(RegionMapError::TiltedSpan { rank: 2, .. })
+        ));
+        assert_eq!(axis_words(&[1, 2]), "pitch and yaw");
+        assert_eq!(combinations(4, 2).len(), 6);
+        assert_eq!(combinations(5, 3).len(), 10);
     }
 }

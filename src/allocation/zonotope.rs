@@ -349,6 +349,13 @@ impl Zonotope {
         &self.facets
     }
 
+    /// The inequalities normal·x ≤ offset that bound Z within its span: the
+    /// facets' planes when the rank is 3, the edges' lines in its plane when Z is
+    /// flat, the two end points of a segment. Normals are unit vectors in the span.
+    pub fn bounding_planes(&self) -> &[(Vector3<f64>, f64)] {
+        &self.halfspaces
+    }
+
     /// Vertices. For a flat set these are the vertices of the zonogon or segment.
     pub fn vertices(&self) -> &[Vector3<f64>] {
         &self.vertices

@@ -32,6 +32,9 @@ use nalgebra::Vector3;
 use serde::{Deserialize, Serialize};
 use thiserror::Error;
 
+/// Body-axis names in index order.
+const AXES: [&str; 3] = ["roll", "pitch", "yaw"];
+
 /// Largest port count a 32-bit valve mask can describe.
 pub const MAX_PORTS: usize = 32;
 
@@ -140,17 +143,19 @@ pub struct OnOffRow {
 ///
 /// Duty of port `basic[k]` is Σⱼ `map[k][j]`·τⱼ + `offset[k]`; ports in
 /// `full_on_mask` run at 1 and all others at 0. τ belongs to the region when the
-/// three basic duties lie in [0, 1]: the six inequalities −M τ ≤ m, M τ ≤ 1 − m.
+/// basic duties lie in [0, 1]: the inequalities −M τ ≤ m, M τ ≤ 1 − m. There is
+/// one basic port per axis of [`FirmwareTables::map_axes`] (three unless the ports
+/// span fewer axes); the columns of `map` for the other axes are zero.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct RegionEntry {
-    /// The three basic (fractional) ports.
-    pub basic: [usize; 3],
+    /// The basic (fractional) ports, one per mapped axis.
+    pub basic: Vec<usize>,
     /// Non-basic ports held at duty 1 (bit i = port i).
     pub full_on_mask: u32,
-    /// M, row k giving basic port k; units 1/(N·m).
-    pub map: [[f64; 3]; 3],
-    /// m, duty units.
-    pub offset: [f64; 3],
+    /// M, row k giving basic port k over (roll, pitch, yaw); units 1/(N·m).
+    pub map: Vec<[f64; 3]>,
+    /// m, duty units, one per basic port.
+    pub offset: Vec<f64>,
 }
 
 /// One facet of the attainable torque set: normal·τ ≤ offset.
@@ -234,6 +239,10 @@ pub struct FirmwareTables {
     pub flight_state: String,
     /// Ports in mask-bit order.
     pub ports: Vec<PortEntry>,
+    /// The body axes the duty-cycle map follows ("roll", "pitch", "yaw"): all
+    /// three unless the ports span fewer, in which case a command's components on
+    /// the other axes are ignored (no port can make them).
+    pub map_axes: Vec<String>,
     /// The rule the on/off rows were chosen by.
     pub onoff_rule: OnOffRule,
     /// The 27 on/off rows, indexed by [`onoff_row`].
@@ -333,21 +342,23 @@ pub fn build_tables(
         .regions()
         .iter()
         .map(|r| RegionEntry {
-            basic: r.ports,
+            basic: r.ports.clone(),
             full_on_mask: mask_of(&r.full_on),
-            map: [0, 1, 2].map(|k| [0, 1, 2].map(|j| r.map[(k, j)])),
-            offset: array3(&r.offset),
+            map: (0..r.ports.len())
+                .map(|k| [0, 1, 2].map(|j| r.map[(k, j)]))
+                .collect(),
+            offset: (0..r.ports.len()).map(|k| r.offset[k]).collect(),
         })
         .collect();
 
     let z = map.zonotope();
     let envelope = Envelope {
         facets: z
-            .facets()
+            .bounding_planes()
             .iter()
-            .map(|f| EnvelopeFacet {
-                normal: array3(&f.normal),
-                offset_nm: f.offset,
+            .map(|(normal, offset)| EnvelopeFacet {
+                normal: array3(normal),
+                offset_nm: *offset,
             })
             .collect(),
         // The same slack as `Zonotope::contains`, so both sides agree on "inside".
@@ -402,6 +413,7 @@ pub fn build_tables(
         layout: names.layout.clone(),
         flight_state: names.flight_state.clone(),
         ports,
+        map_axes: map.axes().iter().map(|&a| AXES[a].to_string()).collect(),
         onoff_rule,
         onoff: rows,
         regions,
@@ -496,12 +508,27 @@ impl FirmwareTables {
         if self.regions.is_empty() {
             return Err(inconsistent("the duty-cycle map has no regions".into()));
         }
+        let axes = self.map_axes.len();
+        let known = self.map_axes.iter().all(|a| AXES.contains(&a.as_str()));
+        if !(1..=3).contains(&axes) || !known {
+            return Err(inconsistent(format!(
+                "the map follows axes {:?}; expected one to three of roll, pitch and yaw",
+                self.map_axes
+            )));
+        }
         for (k, reg) in self.regions.iter().enumerate() {
-            let [a, b, c] = reg.basic;
-            if a >= n || b >= n || c >= n || a == b || b == c || a == c {
+            let b = &reg.basic;
+            let distinct = (0..b.len()).all(|i| (i + 1..b.len()).all(|j| b[i] != b[j]));
+            if b.len() != axes || b.iter().any(|&p| p >= n) || !distinct {
                 return Err(inconsistent(format!(
-                    "region {k}: basic ports {:?} are not three distinct ports of {n}",
-                    reg.basic
+                    "region {k}: basic ports {b:?} are not {axes} distinct ports of {n}"
+                )));
+            }
+            if reg.map.len() != axes || reg.offset.len() != axes {
+                return Err(inconsistent(format!(
+                    "region {k}: {} map rows and {} offsets for {axes} basic ports",
+                    reg.map.len(),
+                    reg.offset.len()
                 )));
             }
             if reg.full_on_mask & !all != 0 || reg.full_on_mask & mask_of(&reg.basic) != 0 {
@@ -580,6 +607,28 @@ fn outcome_word(o: &OnOffOutcome) -> (&'static str, f64) {
         OnOffOutcome::Meets => ("meets", 0.0),
         OnOffOutcome::NearMiss { shortfall } => ("near_miss", *shortfall),
     }
+}
+
+/// The axes the duty-cycle map follows, in words, as comment lines.
+fn axes_words(t: &FirmwareTables) -> Vec<String> {
+    let idx: Vec<usize> = t
+        .map_axes
+        .iter()
+        .filter_map(|a| AXES.iter().position(|b| b == a))
+        .collect();
+    let spanned = crate::allocation::region_map::axis_words(&idx);
+    if idx.len() == 3 {
+        return vec![format!(
+            "Map axes:     {spanned} (the duty-cycle map follows all three)."
+        )];
+    }
+    let missing: Vec<usize> = (0..3).filter(|a| !idx.contains(a)).collect();
+    let others = crate::allocation::region_map::axis_words(&missing);
+    vec![
+        format!("Map axes:     {spanned} only. The ports make no {others} torque, so the"),
+        format!("              duty-cycle map ignores the {others} component of a command;"),
+        format!("              on/off rows that command {others} are near misses."),
+    ]
 }
 
 /// Words of `s` in lines of at most `width` characters.
@@ -684,6 +733,9 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line(format!(
         " * Ports:        {n} (bit i of a valve mask is port i)"
     ));
+    for l in axes_words(t) {
+        o.line(format!(" * {l}"));
+    }
     o.line(" *");
     o.line(" * Frame: body axes with +x toward the nose, +y through the reference line");
     o.line(" *   on the tube and +z = x cross y. Roll is rotation about +x, pitch about +y,");
@@ -719,10 +771,11 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     ));
     o.line(" *   pw_regions[r]  exact minimum-gas duty cycles, piecewise affine in the");
     o.line(" *                  torque command tau: in region r the duty of port basic[k]");
-    o.line(" *                  is sum_j map[k][j]*tau[j] + offset[k] (k = 0, 1, 2), ports");
+    o.line(" *                  is sum_j map[k][j]*tau[j] + offset[k] for k = 0 to");
+    o.line(" *                  PW_BASIC_COUNT - 1 (one basic port per mapped axis), ports");
     o.line(" *                  in full_on run at 1, all others at 0. tau is in region r");
-    o.line(" *                  when its six inequalities hold: -map*tau <= offset and");
-    o.line(" *                  map*tau <= 1 - offset, i.e. the three duties lie in [0, 1].");
+    o.line(" *                  when its inequalities hold: -map*tau <= offset and");
+    o.line(" *                  map*tau <= 1 - offset, i.e. the basic duties lie in [0, 1].");
     o.line(" *   pw_facets[f]   the attainable torque set: normal . tau <= offset_nm for");
     o.line(" *                  every f. A command outside it is scaled to the boundary by");
     o.line(
@@ -792,6 +845,17 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line("#endif");
     o.line("");
     o.line(format!("#define PW_PORT_COUNT {n}"));
+    o.line(format!(
+        "#define PW_BASIC_COUNT {} /* basic ports per region = axes the map follows */",
+        t.map_axes.len()
+    ));
+    for axis in AXES {
+        o.line(format!(
+            "#define PW_MAP_{} {} /* 1 when the map follows {axis} */",
+            axis.to_uppercase(),
+            u8::from(t.map_axes.iter().any(|a| a == axis))
+        ));
+    }
     o.line(format!("#define PW_ONOFF_ROWS {ONOFF_ROWS}"));
     o.line(format!("#define PW_ONOFF_ALL_OFF_ROW {ALL_OFF_ROW}"));
     o.line(format!("#define PW_REGION_COUNT {}", t.regions.len()));
@@ -866,7 +930,7 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line("} pw_onoff_entry;");
     o.line("");
     o.line("typedef struct {");
-    o.line("    unsigned char basic[3]; /* the three fractional ports */");
+    o.line("    unsigned char basic[3]; /* the PW_BASIC_COUNT fractional ports; the rest 0 */");
     o.line("    uint32_t full_on;       /* ports held at duty 1 */");
     o.line("    pw_real map[3][3];      /* 1/(N.m) */");
     o.line("    pw_real offset[3];      /* duty */");
@@ -919,16 +983,24 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line("");
     o.line("static const pw_region pw_regions[PW_REGION_COUNT] = {");
     for (k, reg) in t.regions.iter().enumerate() {
-        let [a, b, c] = reg.basic;
-        o.line(format!("    /* {k}: basic ports {a} {b} {c} */"));
+        let names: Vec<String> = reg.basic.iter().map(|b| b.to_string()).collect();
+        let pad = |k: usize| reg.basic.get(k).copied().unwrap_or(0);
+        let row = |k: usize| reg.map.get(k).copied().unwrap_or([0.0; 3]);
+        let offset: Vec<f64> = (0..3)
+            .map(|k| reg.offset.get(k).copied().unwrap_or(0.0))
+            .collect();
+        o.line(format!("    /* {k}: basic ports {} */", names.join(" ")));
         o.line(format!(
-            "    {{{{{a}, {b}, {c}}}, {},",
+            "    {{{{{}, {}, {}}}, {},",
+            pad(0),
+            pad(1),
+            pad(2),
             c_mask(reg.full_on_mask)
         ));
-        o.line(format!("     {{{},", c_reals(&reg.map[0])));
-        o.line(format!("      {},", c_reals(&reg.map[1])));
-        o.line(format!("      {}}},", c_reals(&reg.map[2])));
-        o.line(format!("     {}}},", c_reals(&reg.offset)));
+        o.line(format!("     {{{},", c_reals(&row(0))));
+        o.line(format!("      {},", c_reals(&row(1))));
+        o.line(format!("      {}}},", c_reals(&row(2))));
+        o.line(format!("     {}}},", c_reals(&offset)));
     }
     o.line("};");
     o.line("");
@@ -1066,7 +1138,7 @@ static inline int pw_duty_cycles(const pw_real torque_nm[3], pw_real duty[PW_POR
     /* First region within the slack; failing that, the least violated one. */
     for (r = 0; r < PW_REGION_COUNT; ++r) {
         pw_real worst = PW_R(0.0);
-        for (k = 0; k < 3; ++k) {
+        for (k = 0; k < PW_BASIC_COUNT; ++k) {
             pw_real u = pw_dot3(pw_regions[r].map[k], target) + pw_regions[r].offset[k];
             if (-u > worst) {
                 worst = -u;
@@ -1089,7 +1161,7 @@ static inline int pw_duty_cycles(const pw_real torque_nm[3], pw_real duty[PW_POR
             duty[i] = PW_R(1.0);
         }
     }
-    for (k = 0; k < 3; ++k) {
+    for (k = 0; k < PW_BASIC_COUNT; ++k) {
         pw_real u = pw_dot3(pw_regions[best].map[k], target) + pw_regions[best].offset[k];
         if (u < PW_R(0.0)) {
             u = PW_R(0.0);
@@ -1130,9 +1202,12 @@ pub fn render_csv(t: &FirmwareTables) -> String {
     for l in wrap(ONOFF_RULE, 96) {
         o.line(format!("#              {l}"));
     }
-    o.line("# [regions]  region, basic ports b0 b1 b2, full_on_mask (ports at duty 1), m_kj = row k column j of M, offset_k:");
-    o.line("#            duty of port b_k = m_k0*roll + m_k1*pitch + m_k2*yaw + offset_k; the region holds the command when");
-    o.line("#            these three duties lie in [0, 1] (its six inequalities); search regions in order.");
+    o.line("# [regions]  region, basic ports b0 .. (one per mapped axis, basic_count in [summary]), full_on_mask (ports at duty 1),");
+    o.line("#            m_kj = row k column j of M, offset_k: duty of port b_k = m_k0*roll + m_k1*pitch + m_k2*yaw + offset_k;");
+    o.line("#            the region holds the command when these duties lie in [0, 1]; search regions in order.");
+    for l in axes_words(t) {
+        o.line(format!("# {l}"));
+    }
     o.line("# [facets]   attainable torque set: normal . tau <= offset_nm; outside, scale tau by min over normal.tau > 0 of offset_nm/(normal.tau).");
     if t.grid.is_some() {
         o.line("# [grid]     point p = (i*g + j)*g + k for roll, pitch, yaw indices i, j, k; command, scale achieved, duty_i of port i.");
@@ -1143,6 +1218,8 @@ pub fn render_csv(t: &FirmwareTables) -> String {
     o.line(format!("layout,{}", csv_field(&t.layout)));
     o.line(format!("flight_state,{}", csv_field(&t.flight_state)));
     o.line(format!("port_count,{n}"));
+    o.line(format!("map_axes,{}", t.map_axes.join(" ")));
+    o.line(format!("basic_count,{}", t.map_axes.len()));
     o.line(format!("region_slack,{}", num(t.region_slack)));
     o.line(format!("envelope_slack_nm,{}", num(t.envelope.slack_nm)));
     let r = &t.onoff_rule;
@@ -1205,15 +1282,17 @@ pub fn render_csv(t: &FirmwareTables) -> String {
     }
     o.line("");
     o.line("[regions]");
-    o.line("region,b0,b1,b2,full_on_mask,m00,m01,m02,m10,m11,m12,m20,m21,m22,offset_0,offset_1,offset_2");
+    let r = t.map_axes.len();
+    let mut head = vec!["region".to_string()];
+    head.extend((0..r).map(|k| format!("b{k}")));
+    head.push("full_on_mask".into());
+    head.extend((0..r).flat_map(|k| (0..3).map(move |j| format!("m{k}{j}"))));
+    head.extend((0..r).map(|k| format!("offset_{k}")));
+    o.line(head.join(","));
     for (k, reg) in t.regions.iter().enumerate() {
-        let mut fields = vec![
-            k.to_string(),
-            reg.basic[0].to_string(),
-            reg.basic[1].to_string(),
-            reg.basic[2].to_string(),
-            reg.full_on_mask.to_string(),
-        ];
+        let mut fields = vec![k.to_string()];
+        fields.extend(reg.basic.iter().map(|b| b.to_string()));
+        fields.push(reg.full_on_mask.to_string());
         fields.extend(reg.map.as_flattened().iter().map(|v| num(*v)));
         fields.extend(reg.offset.iter().map(|v| num(*v)));
         o.line(fields.join(","));
@@ -1277,9 +1356,10 @@ pub fn render_json(t: &FirmwareTables) -> Result<String, FirmwareError> {
         units: UNITS,
         onoff_rows: ROW_RULE,
         onoff_rule_words: ONOFF_RULE,
-        regions_rule: "duty of port basic[k] = map[k] . tau + offset[k]; ports in full_on_mask \
-at 1, others 0; the region holds tau when the three basic duties lie in [0, 1]; \
-search regions in order",
+        regions_rule: "duty of port basic[k] = map[k] . tau + offset[k], one basic port per \
+axis of map_axes; ports in full_on_mask at 1, others 0; the region holds tau when the basic \
+duties lie in [0, 1]; search regions in order; command components on axes outside map_axes \
+are ignored",
         envelope_rule: "inside when normal . tau <= offset_nm + slack_nm for every facet; \
 outside, scale tau by min over normal . tau > 0 of offset_nm / (normal . tau)",
         grid_rule: t.grid.as_ref().map(|_| {
@@ -1553,7 +1633,7 @@ mod tests {
         t.onoff[0].mask = 1 << 6;
         assert!(matches!(t.validate(), Err(FirmwareError::Inconsistent(_))));
         let mut t = good.clone();
-        t.regions[0].basic = [0, 0, 1];
+        t.regions[0].basic = vec![0, 0, 1];
         assert!(matches!(t.validate(), Err(FirmwareError::Inconsistent(_))));
         let mut t = good;
         t.grid.as_mut().expect("grid").points[3].duty.pop();

@@ -4,6 +4,7 @@
  * Layout:       six-port golden case
  * Flight state: coast
  * Ports:        6 (bit i of a valve mask is port i)
+ * Map axes:     roll, pitch and yaw (the duty-cycle map follows all three).
  *
  * Frame: body axes with +x toward the nose, +y through the reference line
  *   on the tube and +z = x cross y. Roll is rotation about +x, pitch about +y,
@@ -41,10 +42,11 @@
  *                  Here: fraction 5e-1, tolerance 1e-1, comparison tolerance 1e-9.
  *   pw_regions[r]  exact minimum-gas duty cycles, piecewise affine in the
  *                  torque command tau: in region r the duty of port basic[k]
- *                  is sum_j map[k][j]*tau[j] + offset[k] (k = 0, 1, 2), ports
+ *                  is sum_j map[k][j]*tau[j] + offset[k] for k = 0 to
+ *                  PW_BASIC_COUNT - 1 (one basic port per mapped axis), ports
  *                  in full_on run at 1, all others at 0. tau is in region r
- *                  when its six inequalities hold: -map*tau <= offset and
- *                  map*tau <= 1 - offset, i.e. the three duties lie in [0, 1].
+ *                  when its inequalities hold: -map*tau <= offset and
+ *                  map*tau <= 1 - offset, i.e. the basic duties lie in [0, 1].
  *   pw_facets[f]   the attainable torque set: normal . tau <= offset_nm for
  *                  every f. A command outside it is scaled to the boundary by
  *                  s = min over f with normal . tau > 0 of offset_nm / (normal . tau).
@@ -90,6 +92,10 @@ typedef double pw_real;
 #endif
 
 #define PW_PORT_COUNT 6
+#define PW_BASIC_COUNT 3 /* basic ports per region = axes the map follows */
+#define PW_MAP_ROLL 1 /* 1 when the map follows roll */
+#define PW_MAP_PITCH 1 /* 1 when the map follows pitch */
+#define PW_MAP_YAW 1 /* 1 when the map follows yaw */
 #define PW_ONOFF_ROWS 27
 #define PW_ONOFF_ALL_OFF_ROW 13
 #define PW_REGION_COUNT 12
@@ -132,7 +138,7 @@ typedef struct {
 } pw_onoff_entry;
 
 typedef struct {
-    unsigned char basic[3]; /* the three fractional ports */
+    unsigned char basic[3]; /* the PW_BASIC_COUNT fractional ports; the rest 0 */
     uint32_t full_on;       /* ports held at duty 1 */
     pw_real map[3][3];      /* 1/(N.m) */
     pw_real offset[3];      /* duty */
@@ -415,7 +421,7 @@ static inline int pw_duty_cycles(const pw_real torque_nm[3], pw_real duty[PW_POR
     /* First region within the slack; failing that, the least violated one. */
     for (r = 0; r < PW_REGION_COUNT; ++r) {
         pw_real worst = PW_R(0.0);
-        for (k = 0; k < 3; ++k) {
+        for (k = 0; k < PW_BASIC_COUNT; ++k) {
             pw_real u = pw_dot3(pw_regions[r].map[k], target) + pw_regions[r].offset[k];
             if (-u > worst) {
                 worst = -u;
@@ -438,7 +444,7 @@ static inline int pw_duty_cycles(const pw_real torque_nm[3], pw_real duty[PW_POR
             duty[i] = PW_R(1.0);
         }
     }
-    for (k = 0; k < 3; ++k) {
+    for (k = 0; k < PW_BASIC_COUNT; ++k) {
         pw_real u = pw_dot3(pw_regions[best].map[k], target) + pw_regions[best].offset[k];
         if (u < PW_R(0.0)) {
             u = PW_R(0.0);

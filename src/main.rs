@@ -124,15 +124,17 @@ fn run(cli: Cli) -> Result<()> {
             let analysis = portwright::analysis::analyze(&design)
                 .with_context(|| format!("{}: analysis failed", layout.display()))?;
             eprintln!("building tables, meshes, template, plots and the report");
-            let files =
-                portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper))
-                    .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+            let bundle =
+                portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper));
             print!("{}", portwright::report::render_text(&analysis));
             println!();
-            for f in &files {
+            for f in &bundle.files {
                 let path = out.join(&f.name);
                 write_atomic(&path, &f.bytes, &[&layout], false)?;
                 println!("wrote {} ({} bytes)", path.display(), f.bytes.len());
+            }
+            for n in &bundle.not_written {
+                println!("{}", n.line());
             }
             Ok(())
         }

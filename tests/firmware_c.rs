@@ -230,8 +230,8 @@ int main(void)
     for (r = -1; r <= 1; ++r) {
         for (p = -1; p <= 1; ++p) {
             for (y = -1; y <= 1; ++y) {
-                printf("mask %d %d %d %d %lu\n", r, p, y, pw_onoff_row(r, p, y),
-                       (unsigned long)pw_onoff_mask(r * 3, p * 2, y));
+                printf("mask %d %d %d %d %llu\n", r, p, y, pw_onoff_row(r, p, y),
+                       (unsigned long long)pw_onoff_mask(r * 3, p * 2, y));
             }
         }
     }
@@ -352,7 +352,7 @@ fn check_c_against_engine(e: &Effectiveness, float: bool, duty_tol: f64) {
     );
 
     let plan = OnOffPlan::new(&e, &OnOffOptions::default(), &|_| 1.0, &tol).expect("plans");
-    let masks: Vec<(i8, i8, i8, usize, u32)> = out
+    let masks: Vec<(i8, i8, i8, usize, u64)> = out
         .lines()
         .filter_map(|l| l.strip_prefix("mask "))
         .map(|l| {
@@ -370,7 +370,7 @@ fn check_c_against_engine(e: &Effectiveness, float: bool, duty_tol: f64) {
     for (r, p, y, row, mask) in masks {
         assert_eq!(row, onoff_row([r, p, y]));
         let want = match plan.get([r, p, y]) {
-            Some(sel) => sel.set().ports.iter().fold(0u32, |m, &q| m | 1 << q),
+            Some(sel) => sel.set().ports.iter().fold(0u64, |m, &q| m | 1 << q),
             None => 0,
         };
         assert_eq!(mask, want, "command ({r}, {p}, {y})");
@@ -422,6 +422,71 @@ fn pitch_yaw_header_matches_the_engine() {
     assert!(h.contains("#define PW_MAP_ROLL 0"));
     assert!(h.contains("pitch and yaw only"));
     assert!(render_csv(&t).contains("\nmap_axes,pitch yaw\n"));
+}
+
+/// 34 ports, more than a 32-bit mask holds: four rings of tangential and radial
+/// ports at different stations, generated here.
+fn many_ports(count: usize) -> Effectiveness {
+    let ports: Vec<PortGeometry> = (0..count)
+        .map(|k| {
+            let a = k as f64 * 0.61;
+            let station = -0.15 - 0.04 * (k % 9) as f64;
+            let radial = Vector3::new(0.0, a.cos(), a.sin());
+            let tangent = Vector3::new(0.0, -a.sin(), a.cos());
+            let sense = if k % 2 == 0 { 1.0 } else { -1.0 };
+            let direction = if k % 3 == 0 {
+                -radial
+            } else {
+                (tangent * sense + radial * 0.4).normalize()
+            };
+            let thrust = 0.8 + 0.01 * k as f64;
+            PortGeometry {
+                name: format!("p{k}"),
+                position_m: Vector3::new(station, RADIUS * a.cos(), RADIUS * a.sin()),
+                direction,
+                thrust_n: thrust,
+                mass_flow_kg_s: thrust / (45.0 * G0),
+            }
+        })
+        .collect();
+    Effectiveness::from_ports(&ports).expect("valid ports")
+}
+
+#[test]
+fn wide_masks_for_more_than_32_ports() {
+    // 34 ports: 64-bit masks in C, the on/off rows by integer programming. The
+    // header compiles in both precisions and its masks are the plan's, bit for bit
+    // (a mask above bit 31 would be lost in 32 bits).
+    let e = many_ports(34);
+    let tol = Tolerances::default();
+    let t = tables_for(&e, "34 ports", None);
+    let h = render_c_header(&t).expect("renders");
+    assert!(h.contains("typedef uint64_t pw_mask;"));
+    let plan = OnOffPlan::new(&e, &OnOffOptions::default(), &|_| 1.0, &tol).expect("plans");
+    let dir = tempfile::tempdir().expect("temp dir");
+    std::fs::write(dir.path().join("tables.h"), &h).expect("write header");
+    let mut src = String::from("#include <stdio.h>\n#include \"tables.h\"\nint main(void)\n{\n");
+    src.push_str("    int r, p, y;\n    for (r = -1; r <= 1; ++r) for (p = -1; p <= 1; ++p) for (y = -1; y <= 1; ++y)\n");
+    src.push_str("        printf(\"%d %d %d %llu\\n\", r, p, y, (unsigned long long)pw_onoff_mask(r, p, y));\n");
+    src.push_str("    return 0;\n}\n");
+    let mut high_bits = 0;
+    for extra in [&[][..], &["-DPW_USE_FLOAT"][..]] {
+        let exe = compile(dir.path(), &src, "wide", extra);
+        for line in run(&exe).lines() {
+            let f: Vec<&str> = line.split_whitespace().collect();
+            let c = [0, 1, 2].map(|k| f[k].parse::<i8>().expect("sign"));
+            let mask: u64 = f[3].parse().expect("mask");
+            let want = plan
+                .get(c)
+                .map(|sel| sel.set().ports.iter().fold(0u64, |m, &q| m | 1 << q))
+                .unwrap_or(0);
+            assert_eq!(mask, want, "command {c:?}");
+            if mask >> 32 != 0 {
+                high_bits += 1;
+            }
+        }
+    }
+    assert!(high_bits > 0, "no row opens a port above bit 31");
 }
 
 fn golden_dir() -> PathBuf {

@@ -4,6 +4,12 @@
 //!
 //! The caller writes them; nothing here touches the disk. Output is
 //! deterministic, so the committed `exports/` folder can be checked as golden files.
+//!
+//! One output that cannot be made (firmware tables for a layout whose ports span
+//! a tilted plane, more ports than a valve mask holds, a plot that fails) does not
+//! stop the others: it is listed in [`Bundle::not_written`] with the reason, and
+//! the HTML report carries the same list, so the builder still gets the template,
+//! the STL and the report.
 
 use super::firmware::{build_tables, render_c_header, render_csv, render_json, TableNames};
 use super::html::{render_html, Block, Figure, HtmlReport, Section, Table};
@@ -14,11 +20,11 @@ use super::plots::{
 use super::stl::{airframe_stl, drill_axes_stl, exhaust_markers_stl, MarkerSettings, MeshSettings};
 use super::template::{drill_template_svg, TemplateSettings};
 use crate::allocation::onoff::OnOffOptions;
-use crate::allocation::Tolerances;
+use crate::allocation::{Tolerances, Zonotope};
 use crate::analysis::score::ray_limit;
 use crate::analysis::{effectiveness, Analysis, StateReport};
 use crate::model::Design;
-use nalgebra::Vector3;
+use nalgebra::{Matrix3xX, Vector3};
 
 /// One output file.
 #[derive(Debug, Clone)]
@@ -27,6 +33,31 @@ pub struct OutputFile {
     pub name: String,
     /// Contents.
     pub bytes: Vec<u8>,
+}
+
+/// An output that could not be made, and why.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NotWritten {
+    /// The file or files, by name.
+    pub files: String,
+    /// Why, in words.
+    pub reason: String,
+}
+
+/// Every file of the whole job, and the ones that could not be made.
+#[derive(Debug, Clone)]
+pub struct Bundle {
+    /// The files made, in a fixed order.
+    pub files: Vec<OutputFile>,
+    /// Outputs left out, with the reason; empty when everything was made.
+    pub not_written: Vec<NotWritten>,
+}
+
+impl NotWritten {
+    /// "FILES: REASON", as the report and the terminal show it.
+    pub fn line(&self) -> String {
+        format!("{} not written: {}", self.files, self.reason)
+    }
 }
 
 /// Directions used to trace each envelope slice (every 2°).
@@ -44,13 +75,20 @@ pub fn envelope_slice(design: &Design, state: &StateReport, plane: Plane) -> Vec
         .map(|(p, r)| (p.position(radius) - cg).cross(&(p.thrust_direction() * r.thrust_n)))
         .collect();
     let (a, b) = plane.axes();
+    // The zonotope's facets are found once, so each direction costs one pass over
+    // them instead of a search over port triples; past its generator limit the
+    // closed-form ray limit is used directly.
+    let zonotope = Zonotope::new(Matrix3xX::from_columns(&columns), &Tolerances::default()).ok();
     (0..SLICE_DIRECTIONS)
         .map(|k| {
             let th = std::f64::consts::TAU * k as f64 / SLICE_DIRECTIONS as f64;
             let mut d = Vector3::zeros();
             d[a] = th.cos();
             d[b] = th.sin();
-            let t = ray_limit(&columns, &d);
+            let t = match &zonotope {
+                Some(z) => z.max_along(&d),
+                None => ray_limit(&columns, &d),
+            };
             (t * th.cos(), t * th.sin())
         })
         .collect()
@@ -160,7 +198,30 @@ pub fn html_report(
     analysis: &Analysis,
     plots: &[NamedPlot],
 ) -> Result<String, String> {
+    html_report_listing(design, analysis, plots, &[])
+}
+
+/// The HTML report, with a section listing the outputs that could not be made
+/// (none when `not_written` is empty).
+pub fn html_report_listing(
+    design: &Design,
+    analysis: &Analysis,
+    plots: &[NamedPlot],
+    not_written: &[NotWritten],
+) -> Result<String, String> {
     let mut sections = Vec::new();
+    if !not_written.is_empty() {
+        sections.push(Section {
+            heading: "Files not written".to_string(),
+            blocks: vec![
+                Block::Paragraph(
+                    "These outputs could not be made for this layout; everything else was written."
+                        .to_string(),
+                ),
+                Block::List(not_written.iter().map(NotWritten::line).collect()),
+            ],
+        });
+    }
     let g = &analysis.gas;
     sections.push(Section {
         heading: "Gas".to_string(),
@@ -311,73 +372,167 @@ pub fn state_tables(
         .map_err(|e| e.to_string())
 }
 
-/// Every output file for the layout.
-pub fn bundle(
-    design: &Design,
-    analysis: &Analysis,
-    template: &TemplateSettings,
-) -> Result<Vec<OutputFile>, String> {
+/// Every output file for the layout, and the outputs that could not be made.
+pub fn bundle(design: &Design, analysis: &Analysis, template: &TemplateSettings) -> Bundle {
     let mut files = Vec::new();
+    let mut not_written = Vec::new();
     let mut push = |name: &str, bytes: Vec<u8>| {
         files.push(OutputFile {
             name: name.to_string(),
             bytes,
         })
     };
+    let skip = |list: &mut Vec<NotWritten>, files: &str, reason: String| {
+        list.push(NotWritten {
+            files: files.to_string(),
+            reason,
+        })
+    };
     push(
         "analysis.txt",
         crate::report::render_text(analysis).into_bytes(),
     );
-    push(
-        "analysis.json",
-        (serde_json::to_string_pretty(analysis).map_err(|e| e.to_string())? + "\n").into_bytes(),
-    );
+    match serde_json::to_string_pretty(analysis) {
+        Ok(text) => push("analysis.json", (text + "\n").into_bytes()),
+        Err(e) => skip(&mut not_written, "analysis.json", e.to_string()),
+    }
     if let Some(st) = analysis.states.first() {
-        let t = state_tables(design, st, &OnOffOptions::default(), None)?;
-        push(
-            "allocation.h",
-            render_c_header(&t).map_err(|e| e.to_string())?.into_bytes(),
-        );
-        push("allocation.csv", render_csv(&t).into_bytes());
-        push(
-            "allocation.json",
-            render_json(&t).map_err(|e| e.to_string())?.into_bytes(),
-        );
+        let tables = state_tables(design, st, &OnOffOptions::default(), None).and_then(|t| {
+            let h = render_c_header(&t).map_err(|e| e.to_string())?;
+            let j = render_json(&t).map_err(|e| e.to_string())?;
+            Ok((h, render_csv(&t), j))
+        });
+        match tables {
+            Ok((h, csv, json)) => {
+                push("allocation.h", h.into_bytes());
+                push("allocation.csv", csv.into_bytes());
+                push("allocation.json", json.into_bytes());
+            }
+            Err(e) => skip(
+                &mut not_written,
+                "allocation.h, allocation.csv and allocation.json",
+                format!("firmware tables for flight state `{}`: {e}", st.name),
+            ),
+        }
     }
     let mesh = MeshSettings::default();
-    push(
-        "airframe.stl",
-        airframe_stl(design, &mesh).map_err(|e| e.to_string())?,
-    );
-    push(
-        "drill-axes.stl",
-        drill_axes_stl(design, &mesh).map_err(|e| e.to_string())?,
-    );
+    match airframe_stl(design, &mesh) {
+        Ok(b) => push("airframe.stl", b),
+        Err(e) => skip(&mut not_written, "airframe.stl", e.to_string()),
+    }
+    match drill_axes_stl(design, &mesh) {
+        Ok(b) => push("drill-axes.stl", b),
+        Err(e) => skip(&mut not_written, "drill-axes.stl", e.to_string()),
+    }
     let thrusts: Vec<f64> = analysis
         .states
         .first()
         .map(|s| s.ports.iter().map(|p| p.thrust_n).collect())
         .unwrap_or_default();
-    push(
-        "exhaust-markers.stl",
-        exhaust_markers_stl(design, &thrusts, &MarkerSettings::default(), &mesh)
-            .map_err(|e| e.to_string())?,
-    );
-    let pages = drill_template_svg(design, template).map_err(|e| e.to_string())?;
-    for (k, page) in pages.into_iter().enumerate() {
-        push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
+    match exhaust_markers_stl(design, &thrusts, &MarkerSettings::default(), &mesh) {
+        Ok(b) => push("exhaust-markers.stl", b),
+        Err(e) => skip(&mut not_written, "exhaust-markers.stl", e.to_string()),
     }
-    let plots = plots(design, analysis)?;
+    match drill_template_svg(design, template) {
+        Ok(pages) => {
+            for (k, page) in pages.into_iter().enumerate() {
+                push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
+            }
+        }
+        Err(e) => skip(&mut not_written, "drill-template-N.svg", e.to_string()),
+    }
+    let plots = match plots(design, analysis) {
+        Ok(p) => p,
+        Err(e) => {
+            skip(&mut not_written, "the plots (SVG and PNG)", e);
+            Vec::new()
+        }
+    };
     for p in &plots {
         push(&format!("{}.svg", p.name), p.plot.svg.clone().into_bytes());
-        push(
-            &format!("{}.png", p.name),
-            p.plot.to_png(1.0).map_err(|e| e.to_string())?,
-        );
+        match p.plot.to_png(1.0) {
+            Ok(b) => push(&format!("{}.png", p.name), b),
+            Err(e) => skip(&mut not_written, &format!("{}.png", p.name), e.to_string()),
+        }
     }
-    push(
-        "report.html",
-        html_report(design, analysis, &plots)?.into_bytes(),
-    );
-    Ok(files)
+    match html_report_listing(design, analysis, &plots, &not_written) {
+        Ok(html) => push("report.html", html.into_bytes()),
+        Err(e) => skip(&mut not_written, "report.html", e),
+    }
+    Bundle { files, not_written }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use good_lp::{microlp, variable, Expression, ProblemVariables, Solution, SolverModel};
+    use std::path::Path;
+
+    fn load(path: &str) -> (Design, Analysis) {
+        let p = Path::new(env!("CARGO_MANIFEST_DIR")).join(path);
+        let design = crate::layout::load(&p).expect("layout loads");
+        let analysis = crate::analysis::analyze(&design).expect("analyses");
+        (design, analysis)
+    }
+
+    /// max t s.t. Σ bᵢuᵢ = t·d, 0 ≤ u ≤ 1, solved by microlp through good_lp.
+    /// Torque entries below 1e-12 of the largest are set to zero first: they are
+    /// the rounding of cross products (1e-34 N m on a roll row that is zero in exact
+    /// arithmetic), which an exact LP would otherwise read as a real constraint.
+    fn ray_lp(columns: &[Vector3<f64>], d: &Vector3<f64>) -> f64 {
+        let big = columns.iter().map(|c| c.amax()).fold(0.0, f64::max);
+        let clean = |v: f64| if v.abs() <= 1e-12 * big { 0.0 } else { v };
+        let mut vars = ProblemVariables::new();
+        let u: Vec<_> = columns
+            .iter()
+            .map(|_| vars.add(variable().min(0.0).max(1.0)))
+            .collect();
+        let t = vars.add(variable().min(0.0));
+        let mut p = vars.maximise(t).using(microlp);
+        for r in 0..3 {
+            let row: Expression = columns.iter().zip(&u).map(|(c, x)| clean(c[r]) * *x).sum();
+            // cos 90° is 6e-17, not 0: the same rounding, in the direction.
+            let dr = if d[r].abs() <= 1e-12 { 0.0 } else { d[r] };
+            p.add_constraint((row - dr * t).eq(0.0));
+        }
+        p.solve().expect("solves").value(t)
+    }
+
+    #[test]
+    fn envelope_slices_match_an_independent_ray_lp() {
+        // Reference: the ray LP above (microlp), on the same state's port torques;
+        // 1e-8 relative is microlp's tolerance. Both a three-axis demo and the
+        // pitch/yaw-only test vehicle, whose flat envelope has no facets at all.
+        for path in [
+            "layouts/heron-54.toml",
+            "tests/layouts/plover-64-pitch-yaw.toml",
+        ] {
+            let (design, analysis) = load(path);
+            let st = &analysis.states[0];
+            let e = effectiveness(&design, &st.mass, &st.ports).expect("effectiveness");
+            let columns: Vec<Vector3<f64>> =
+                (0..e.len()).map(|i| e.torque().column(i).into()).collect();
+            let mut nonzero = 0;
+            for plane in Plane::ALL {
+                let (a, b) = plane.axes();
+                let slice = envelope_slice(&design, st, plane);
+                for (k, (x, y)) in slice.iter().enumerate().step_by(9) {
+                    let th = std::f64::consts::TAU * k as f64 / SLICE_DIRECTIONS as f64;
+                    let mut d = Vector3::zeros();
+                    d[a] = th.cos();
+                    d[b] = th.sin();
+                    let want = ray_lp(&columns, &d);
+                    let got = x.hypot(*y);
+                    assert!(
+                        (got - want).abs() <= 1e-8 * want.max(1e-3),
+                        "{path} {plane:?} {k}: {got} against {want}"
+                    );
+                    if want > 0.0 {
+                        nonzero += 1;
+                    }
+                }
+            }
+            assert!(nonzero >= 20, "{path}: only {nonzero} non-zero directions");
+        }
+    }
 }

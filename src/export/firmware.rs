@@ -22,7 +22,8 @@
 //!
 //! Numbers are written in Rust's shortest round-trip form, so the double tables
 //! in C, the CSV and the JSON all read back to the very `f64` values computed
-//! here. Valve masks are 32-bit (bit i = port i), which bounds the port count.
+//! here. Valve masks have bit i for port i: `uint32_t` in C for up to 32 ports,
+//! `uint64_t` for 33 to 64 ([`MAX_PORTS`]), which bounds the port count.
 
 use crate::allocation::{
     Effectiveness, OnOffError, OnOffOptions, OnOffPlan, OnOffSelection, RegionMap, RegionMapError,
@@ -35,8 +36,11 @@ use thiserror::Error;
 /// Body-axis names in index order.
 const AXES: [&str; 3] = ["roll", "pitch", "yaw"];
 
-/// Largest port count a 32-bit valve mask can describe.
-pub const MAX_PORTS: usize = 32;
+/// Largest port count a valve mask can describe (64 bits).
+pub const MAX_PORTS: usize = 64;
+
+/// Port counts up to this use 32-bit masks in C; above it, 64-bit.
+pub const NARROW_MASK_PORTS: usize = 32;
 
 /// Rows of the on/off table: one per command c ∈ {−1, 0, 1}³.
 pub const ONOFF_ROWS: usize = 27;
@@ -62,7 +66,9 @@ pub const FLOAT_ENVELOPE_RELATIVE_SLACK: f64 = 1e-6;
 #[derive(Debug, Error, Clone, PartialEq)]
 pub enum FirmwareError {
     /// More ports than bits in a valve mask.
-    #[error("{0} ports do not fit a 32-bit valve mask (at most {MAX_PORTS})")]
+    #[error(
+        "{0} ports do not fit a 64-bit valve mask: firmware tables hold at most {MAX_PORTS} ports"
+    )]
     TooManyPorts(usize),
     /// The tables have no ports.
     #[error("the tables have no ports")]
@@ -128,7 +134,7 @@ pub struct OnOffRow {
     /// The per-axis command (roll, pitch, yaw), each −1, 0 or 1.
     pub command: [i8; 3],
     /// Open valves: bit i set when port i is open.
-    pub mask: u32,
+    pub mask: u64,
     /// Torque of the set (roll, pitch, yaw), N·m, including supply droop.
     pub torque_nm: [f64; 3],
     /// Side force of the set (y, z), N.
@@ -151,7 +157,7 @@ pub struct RegionEntry {
     /// The basic (fractional) ports, one per mapped axis.
     pub basic: Vec<usize>,
     /// Non-basic ports held at duty 1 (bit i = port i).
-    pub full_on_mask: u32,
+    pub full_on_mask: u64,
     /// M, row k giving basic port k over (roll, pitch, yaw); units 1/(N·m).
     pub map: Vec<[f64; 3]>,
     /// m, duty units, one per basic port.
@@ -270,8 +276,8 @@ fn row_command(row: usize) -> [i8; 3] {
     [d(row / 9), d(row / 3), d(row)]
 }
 
-fn mask_of(ports: &[usize]) -> u32 {
-    ports.iter().fold(0, |m, &p| m | (1u32 << p))
+fn mask_of(ports: &[usize]) -> u64 {
+    ports.iter().fold(0, |m, &p| m | (1u64 << p))
 }
 
 fn array3(v: &Vector3<f64>) -> [f64; 3] {
@@ -450,7 +456,7 @@ impl FirmwareTables {
         if n > MAX_PORTS {
             return Err(FirmwareError::TooManyPorts(n));
         }
-        let all: u32 = if n == 32 { u32::MAX } else { (1u32 << n) - 1 };
+        let all: u64 = if n == 64 { u64::MAX } else { (1u64 << n) - 1 };
         for (i, p) in self.ports.iter().enumerate() {
             finite(|| format!("ports[{i}].torque_nm"), &p.torque_nm)?;
             finite(|| format!("ports[{i}].mass_flow_kg_s"), &[p.mass_flow_kg_s])?;
@@ -709,8 +715,12 @@ fn c_reals(v: &[f64]) -> String {
     format!("{{{}}}", parts.join(", "))
 }
 
-fn c_mask(m: u32) -> String {
-    format!("UINT32_C(0x{m:08X})")
+fn c_mask(m: u64, ports: usize) -> String {
+    if ports <= NARROW_MASK_PORTS {
+        format!("UINT32_C(0x{m:08X})")
+    } else {
+        format!("UINT64_C(0x{m:016X})")
+    }
 }
 
 /// Renders the tables as a C99 header.
@@ -846,6 +856,14 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line("");
     o.line(format!("#define PW_PORT_COUNT {n}"));
     o.line(format!(
+        "typedef {} pw_mask; /* valve masks: bit i = port i */",
+        if n <= NARROW_MASK_PORTS {
+            "uint32_t"
+        } else {
+            "uint64_t"
+        }
+    ));
+    o.line(format!(
         "#define PW_BASIC_COUNT {} /* basic ports per region = axes the map follows */",
         t.map_axes.len()
     ));
@@ -921,7 +939,7 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line("");
     o.line("typedef struct {");
     o.line("    signed char command[3]; /* roll, pitch, yaw: -1, 0 or 1 */");
-    o.line("    uint32_t mask;          /* open valves, bit i = port i */");
+    o.line("    pw_mask mask;           /* open valves, bit i = port i */");
     o.line("    pw_real torque_nm[3];");
     o.line("    pw_real side_force_n[2]; /* y, z */");
     o.line("    pw_real gas_rate_kg_s;");
@@ -931,7 +949,7 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
     o.line("");
     o.line("typedef struct {");
     o.line("    unsigned char basic[3]; /* the PW_BASIC_COUNT fractional ports; the rest 0 */");
-    o.line("    uint32_t full_on;       /* ports held at duty 1 */");
+    o.line("    pw_mask full_on;        /* ports held at duty 1 */");
     o.line("    pw_real map[3][3];      /* 1/(N.m) */");
     o.line("    pw_real offset[3];      /* duty */");
     o.line("} pw_region;");
@@ -972,7 +990,7 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
         o.line(format!("    /* {r}: command ({a}, {b}, {c}), {word} */"));
         o.line(format!(
             "    {{{{{a}, {b}, {c}}}, {}, {}, {}, {}, {code}, {}}},",
-            c_mask(row.mask),
+            c_mask(row.mask, n),
             c_reals(&row.torque_nm),
             c_reals(&row.side_force_n),
             c_real(row.gas_rate_kg_s),
@@ -995,7 +1013,7 @@ pub fn render_c_header(t: &FirmwareTables) -> Result<String, FirmwareError> {
             pad(0),
             pad(1),
             pad(2),
-            c_mask(reg.full_on_mask)
+            c_mask(reg.full_on_mask, n)
         ));
         o.line(format!("     {{{},", c_reals(&row(0))));
         o.line(format!("      {},", c_reals(&row(1))));
@@ -1054,7 +1072,7 @@ static inline int pw_onoff_row(int roll, int pitch, int yaw)
 }
 
 /* Valves to open for a command; each argument is taken by its sign. */
-static inline uint32_t pw_onoff_mask(int roll, int pitch, int yaw)
+static inline pw_mask pw_onoff_mask(int roll, int pitch, int yaw)
 {
     return pw_onoff[pw_onoff_row(roll, pitch, yaw)].mask;
 }
@@ -1456,7 +1474,7 @@ mod tests {
         for (c, sel) in &plan.entries {
             let row = &t.onoff[onoff_row(*c)];
             assert_eq!(row.command, *c);
-            let ports: Vec<usize> = (0..32).filter(|i| row.mask >> i & 1 == 1).collect();
+            let ports: Vec<usize> = (0..64).filter(|i| row.mask >> i & 1 == 1).collect();
             assert_eq!(ports, sel.set().ports);
             // The row's torque is the sum of its open ports' columns (full supply).
             let mut u = vec![0.0; e.len()];
@@ -1547,7 +1565,7 @@ mod tests {
         let rows = section("onoff");
         assert_eq!(rows.len(), ONOFF_ROWS);
         for (r, fields) in rows.iter().enumerate() {
-            assert_eq!(fields[4].parse::<u32>().expect("mask"), t.onoff[r].mask);
+            assert_eq!(fields[4].parse::<u64>().expect("mask"), t.onoff[r].mask);
             let gas: f64 = fields[10].parse().expect("gas");
             // Rust reads its own shortest decimals back exactly.
             assert_eq!(gas, t.onoff[r].gas_rate_kg_s);
@@ -1651,8 +1669,8 @@ mod tests {
                 Some(FirmwareError::BadGrid(g))
             );
         }
-        // 33 ports: one more than a mask holds. Refused before any search runs.
-        let ports: Vec<PortGeometry> = (0..33)
+        // 65 ports: one more than a mask holds. Refused before any search runs.
+        let ports: Vec<PortGeometry> = (0..65)
             .map(|k| {
                 let a = k as f64 * 0.19;
                 PortGeometry {
@@ -1667,7 +1685,7 @@ mod tests {
         let big = Effectiveness::from_ports(&ports).expect("valid");
         assert_eq!(
             build_tables(&big, &names(), &opts, &|_| 1.0, &tol, None).err(),
-            Some(FirmwareError::TooManyPorts(33))
+            Some(FirmwareError::TooManyPorts(65))
         );
         let mut t = tables(None);
         t.ports.clear();

@@ -92,6 +92,7 @@ typedef double pw_real;
 #endif
 
 #define PW_PORT_COUNT 6
+typedef uint32_t pw_mask; /* valve masks: bit i = port i */
 #define PW_BASIC_COUNT 3 /* basic ports per region = axes the map follows */
 #define PW_MAP_ROLL 1 /* 1 when the map follows roll */
 #define PW_MAP_PITCH 1 /* 1 when the map follows pitch */
@@ -129,7 +130,7 @@ typedef struct {
 
 typedef struct {
     signed char command[3]; /* roll, pitch, yaw: -1, 0 or 1 */
-    uint32_t mask;          /* open valves, bit i = port i */
+    pw_mask mask;           /* open valves, bit i = port i */
     pw_real torque_nm[3];
     pw_real side_force_n[2]; /* y, z */
     pw_real gas_rate_kg_s;
@@ -139,7 +140,7 @@ typedef struct {
 
 typedef struct {
     unsigned char basic[3]; /* the PW_BASIC_COUNT fractional ports; the rest 0 */
-    uint32_t full_on;       /* ports held at duty 1 */
+    pw_mask full_on;        /* ports held at duty 1 */
     pw_real map[3][3];      /* 1/(N.m) */
     pw_real offset[3];      /* duty */
 } pw_region;
@@ -337,7 +338,7 @@ static inline int pw_onoff_row(int roll, int pitch, int yaw)
 }
 
 /* Valves to open for a command; each argument is taken by its sign. */
-static inline uint32_t pw_onoff_mask(int roll, int pitch, int yaw)
+static inline pw_mask pw_onoff_mask(int roll, int pitch, int yaw)
 {
     return pw_onoff[pw_onoff_row(roll, pitch, yaw)].mask;
 }

@@ -95,6 +95,19 @@ fn bench(c: &mut Criterion) {
         })
     });
 
+    // Commands 1e12 times outside the envelope: no simplex solve is needed to know
+    // they are out of reach, only the scale search along their direction.
+    let huge: Vec<_> = far.iter().map(|t| t * 1e12).collect();
+    group.bench_function("min_gas_8_ports_1e12_outside", |b| {
+        b.iter(|| {
+            i = (i + 1) % huge.len();
+            alloc
+                .allocate_into(black_box(&huge[i]), &mut out)
+                .expect("solves");
+            black_box(out.scale)
+        })
+    });
+
     let mut alloc = MinGasAllocator::new(&e8, SideForceLimit::PureCouple, &tol).expect("setup");
     group.bench_function("min_gas_8_ports_pure_couple", |b| {
         b.iter(|| {

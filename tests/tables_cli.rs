@@ -75,6 +75,8 @@ fn run_writes_every_output_for_the_pitch_yaw_vehicle() {
     ] {
         assert!(dir.path().join(f).is_file(), "{f} missing");
     }
+    let html = std::fs::read_to_string(dir.path().join("report.html")).expect("report");
+    assert!(html.contains("The ports span pitch and yaw only"));
 }
 
 /// The Heron demo with `extra` more ports in rings aft of its own, so that it

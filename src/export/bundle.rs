@@ -11,7 +11,10 @@
 //! the HTML report carries the same list, so the builder still gets the template,
 //! the STL and the report.
 
-use super::firmware::{build_tables, render_c_header, render_csv, render_json, TableNames};
+use super::firmware::{
+    build_tables, render_c_header, render_csv, render_json, FirmwareTables, OnOffOutcome,
+    TableNames,
+};
 use super::html::{render_html, Block, Figure, HtmlReport, Section, Table};
 use super::plots::{
     authority_bars_svg, gas_remaining_svg, port_thrust_svg, torque_envelope_svg, AuthorityBars,
@@ -198,7 +201,49 @@ pub fn html_report(
     analysis: &Analysis,
     plots: &[NamedPlot],
 ) -> Result<String, String> {
-    html_report_listing(design, analysis, plots, &[])
+    html_report_listing(design, analysis, plots, &[], None)
+}
+
+/// What the report says about the firmware tables `run` wrote: the flight
+/// state, the axes the duty-cycle map follows, the on/off rule and its misses.
+pub fn tables_summary(t: &FirmwareTables) -> Vec<String> {
+    let idx: Vec<usize> = t
+        .map_axes
+        .iter()
+        .filter_map(|a| ["roll", "pitch", "yaw"].iter().position(|b| b == a))
+        .collect();
+    let axes = crate::allocation::region_map::axis_words(&idx);
+    let mut out = vec![format!(
+        "allocation.h, allocation.csv and allocation.json hold the tables of flight state `{}`: \
+         {} ports, {} regions in the duty-cycle map, {} envelope planes.",
+        t.flight_state,
+        t.ports.len(),
+        t.regions.len(),
+        t.envelope.facets.len()
+    )];
+    if idx.len() == 3 {
+        out.push(format!("The duty-cycle map follows {axes}."));
+    } else {
+        let missing: Vec<usize> = (0..3).filter(|a| !idx.contains(a)).collect();
+        let others = crate::allocation::region_map::axis_words(&missing);
+        out.push(format!(
+            "The ports span {axes} only: the duty-cycle map follows those axes and ignores the \
+             {others} part of a command, since no port makes {others} torque."
+        ));
+    }
+    let r = &t.onoff_rule;
+    let misses = t
+        .onoff
+        .iter()
+        .filter(|row| matches!(row.outcome, OnOffOutcome::NearMiss { .. }))
+        .count();
+    out.push(format!(
+        "On/off rows: each commanded axis gets at least {} of its best on/off torque, each \
+         uncommanded axis at most {} of its scale (shares compared to within {:e}); the least gas \
+         wins, then fewer valves. {} of 26 commands have no qualifying valve set (near misses).",
+        r.fraction, r.tolerance, r.comparison_tolerance, misses
+    ));
+    out
 }
 
 /// The HTML report, with a section listing the outputs that could not be made
@@ -208,6 +253,7 @@ pub fn html_report_listing(
     analysis: &Analysis,
     plots: &[NamedPlot],
     not_written: &[NotWritten],
+    tables: Option<&FirmwareTables>,
 ) -> Result<String, String> {
     let mut sections = Vec::new();
     if !not_written.is_empty() {
@@ -321,6 +367,12 @@ pub fn html_report_listing(
         heading: "Authority, thrust and gas".to_string(),
         blocks: overview,
     });
+    if let Some(t) = tables {
+        sections.push(Section {
+            heading: "Firmware tables".to_string(),
+            blocks: vec![Block::List(tables_summary(t))],
+        });
+    }
     sections.push(Section {
         heading: "Findings".to_string(),
         blocks: vec![Block::List(analysis.findings.clone())],
@@ -396,17 +448,20 @@ pub fn bundle(design: &Design, analysis: &Analysis, template: &TemplateSettings)
         Ok(text) => push("analysis.json", (text + "\n").into_bytes()),
         Err(e) => skip(&mut not_written, "analysis.json", e.to_string()),
     }
+    let mut made_tables = None;
     if let Some(st) = analysis.states.first() {
         let tables = state_tables(design, st, &OnOffOptions::default(), None).and_then(|t| {
             let h = render_c_header(&t).map_err(|e| e.to_string())?;
             let j = render_json(&t).map_err(|e| e.to_string())?;
-            Ok((h, render_csv(&t), j))
+            let csv = render_csv(&t);
+            Ok((t, h, csv, j))
         });
         match tables {
-            Ok((h, csv, json)) => {
+            Ok((t, h, csv, json)) => {
                 push("allocation.h", h.into_bytes());
                 push("allocation.csv", csv.into_bytes());
                 push("allocation.json", json.into_bytes());
+                made_tables = Some(t);
             }
             Err(e) => skip(
                 &mut not_written,
@@ -455,7 +510,7 @@ pub fn bundle(design: &Design, analysis: &Analysis, template: &TemplateSettings)
             Err(e) => skip(&mut not_written, &format!("{}.png", p.name), e.to_string()),
         }
     }
-    match html_report_listing(design, analysis, &plots, &not_written) {
+    match html_report_listing(design, analysis, &plots, &not_written, made_tables.as_ref()) {
         Ok(html) => push("report.html", html.into_bytes()),
         Err(e) => skip(&mut not_written, "report.html", e),
     }

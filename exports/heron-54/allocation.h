@@ -4,6 +4,7 @@
  * Layout:       Heron 54 (demo)
  * Flight state: liftoff
  * Ports:        8 (bit i of a valve mask is port i)
+ * Map axes:     roll, pitch and yaw (the duty-cycle map follows all three).
  *
  * Frame: body axes with +x toward the nose, +y through the reference line
  *   on the tube and +z = x cross y. Roll is rotation about +x, pitch about +y,
@@ -24,12 +25,28 @@
  *                  command (0,0,0), all valves shut. Use pw_onoff_mask().
  *                  outcome PW_ONOFF_NEAR_MISS marks a row where no valve set
  *                  met the thresholds; shortfall says by how much.
+ *                  The rule the rows were chosen by (PW_ONOFF_FRACTION,
+ *                  PW_ONOFF_TOLERANCE, PW_ONOFF_COMPARISON_TOLERANCE,
+ *                  pw_onoff_best_positive_nm and _negative_nm below):
+ *                    a row's valve set pushes each commanded axis the commanded
+ *                    way by at least (fraction - comparison_tolerance) * best
+ *                    torque of that axis and sense (and more than
+ *                    noise_floor_nm), and keeps each uncommanded axis within
+ *                    (tolerance + comparison_tolerance) * scale, scale =
+ *                    max(best positive, best negative) of that axis; torques
+ *                    include supply droop with k valves open; of the sets that
+ *                    qualify the least gas wins, gas rates within
+ *                    comparison_tolerance (relative) count as equal, then fewer
+ *                    valves, then the smaller mask; near_miss rows hold the set
+ *                    with the least shortfall
+ *                  Here: fraction 5e-1, tolerance 1e-1, comparison tolerance 1e-9.
  *   pw_regions[r]  exact minimum-gas duty cycles, piecewise affine in the
  *                  torque command tau: in region r the duty of port basic[k]
- *                  is sum_j map[k][j]*tau[j] + offset[k] (k = 0, 1, 2), ports
+ *                  is sum_j map[k][j]*tau[j] + offset[k] for k = 0 to
+ *                  PW_BASIC_COUNT - 1 (one basic port per mapped axis), ports
  *                  in full_on run at 1, all others at 0. tau is in region r
- *                  when its six inequalities hold: -map*tau <= offset and
- *                  map*tau <= 1 - offset, i.e. the three duties lie in [0, 1].
+ *                  when its inequalities hold: -map*tau <= offset and
+ *                  map*tau <= 1 - offset, i.e. the basic duties lie in [0, 1].
  *   pw_facets[f]   the attainable torque set: normal . tau <= offset_nm for
  *                  every f. A command outside it is scaled to the boundary by
  *                  s = min over f with normal . tau > 0 of offset_nm / (normal . tau).
@@ -70,12 +87,25 @@ typedef double pw_real;
 #endif
 
 #define PW_PORT_COUNT 8
+typedef uint32_t pw_mask; /* valve masks: bit i = port i */
+#define PW_BASIC_COUNT 3 /* basic ports per region = axes the map follows */
+#define PW_MAP_ROLL 1 /* 1 when the map follows roll */
+#define PW_MAP_PITCH 1 /* 1 when the map follows pitch */
+#define PW_MAP_YAW 1 /* 1 when the map follows yaw */
 #define PW_ONOFF_ROWS 27
 #define PW_ONOFF_ALL_OFF_ROW 13
 #define PW_REGION_COUNT 36
 #define PW_FACET_COUNT 14
 #define PW_GRID_POINTS_PER_AXIS 0
 #define PW_GRID_COUNT 0
+
+/* The rule the on/off rows were chosen by (see the comment at the top). */
+#define PW_ONOFF_FRACTION PW_R(5e-1)
+#define PW_ONOFF_TOLERANCE PW_R(1e-1)
+#define PW_ONOFF_COMPARISON_TOLERANCE PW_R(1e-9)
+#define PW_ONOFF_NOISE_FLOOR_NM PW_R(4.564343913190859e-10)
+static const pw_real pw_onoff_best_positive_nm[3] = {PW_R(4.4870493652535294e-2), PW_R(4.497234263440827e-1), PW_R(4.5643439131908586e-1)}; /* roll, pitch, yaw */
+static const pw_real pw_onoff_best_negative_nm[3] = {PW_R(4.4870493652535294e-2), PW_R(4.497234263440827e-1), PW_R(4.5643439131908586e-1)}; /* magnitudes */
 
 /* pw_onoff[row].outcome */
 #define PW_ONOFF_ALL_OFF 0
@@ -95,7 +125,7 @@ typedef struct {
 
 typedef struct {
     signed char command[3]; /* roll, pitch, yaw: -1, 0 or 1 */
-    uint32_t mask;          /* open valves, bit i = port i */
+    pw_mask mask;           /* open valves, bit i = port i */
     pw_real torque_nm[3];
     pw_real side_force_n[2]; /* y, z */
     pw_real gas_rate_kg_s;
@@ -104,8 +134,8 @@ typedef struct {
 } pw_onoff_entry;
 
 typedef struct {
-    unsigned char basic[3]; /* the three fractional ports */
-    uint32_t full_on;       /* ports held at duty 1 */
+    unsigned char basic[3]; /* the PW_BASIC_COUNT fractional ports; the rest 0 */
+    pw_mask full_on;        /* ports held at duty 1 */
     pw_real map[3][3];      /* 1/(N.m) */
     pw_real offset[3];      /* duty */
 } pw_region;
@@ -431,7 +461,7 @@ static inline int pw_onoff_row(int roll, int pitch, int yaw)
 }
 
 /* Valves to open for a command; each argument is taken by its sign. */
-static inline uint32_t pw_onoff_mask(int roll, int pitch, int yaw)
+static inline pw_mask pw_onoff_mask(int roll, int pitch, int yaw)
 {
     return pw_onoff[pw_onoff_row(roll, pitch, yaw)].mask;
 }
@@ -515,7 +545,7 @@ static inline int pw_duty_cycles(const pw_real torque_nm[3], pw_real duty[PW_POR
     /* First region within the slack; failing that, the least violated one. */
     for (r = 0; r < PW_REGION_COUNT; ++r) {
         pw_real worst = PW_R(0.0);
-        for (k = 0; k < 3; ++k) {
+        for (k = 0; k < PW_BASIC_COUNT; ++k) {
             pw_real u = pw_dot3(pw_regions[r].map[k], target) + pw_regions[r].offset[k];
             if (-u > worst) {
                 worst = -u;
@@ -538,7 +568,7 @@ static inline int pw_duty_cycles(const pw_real torque_nm[3], pw_real duty[PW_POR
             duty[i] = PW_R(1.0);
         }
     }
-    for (k = 0; k < 3; ++k) {
+    for (k = 0; k < PW_BASIC_COUNT; ++k) {
         pw_real u = pw_dot3(pw_regions[best].map[k], target) + pw_regions[best].offset[k];
         if (u < PW_R(0.0)) {
             u = PW_R(0.0);

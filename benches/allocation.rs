@@ -1,12 +1,13 @@
 //! Speed of the allocation engine: minimum-gas allocation for 8 ports, the exact
 //! envelope with facets for 16 ports, the `good_lp` model-per-call reference, the
-//! region-map lookup, and a 33×33×33 grid of commands over both cores.
+//! region-map lookup, the on/off valve-set search, and a 33×33×33 grid of
+//! commands over both cores.
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use nalgebra::Vector3;
 use portwright::allocation::{
-    lp, Allocation, Effectiveness, MinGasAllocator, PortGeometry, RegionMap, SideForceLimit,
-    Tolerances, Zonotope,
+    lp, Allocation, Effectiveness, MinGasAllocator, OnOffOptions, OnOffPlan, PortGeometry,
+    RegionMap, SideForceLimit, Tolerances, Zonotope,
 };
 use std::hint::black_box;
 use std::time::Duration;
@@ -138,7 +139,26 @@ fn bench(c: &mut Criterion) {
         })
     });
 
+    // The 26 on/off rows of an 8-port layout by exact enumeration (255 sets), with
+    // a supply droop of 3 % per extra open valve.
+    let droop = |k: usize| 1.0 / (1.0 + 0.03 * (k as f64 - 1.0));
+    group.bench_function("onoff_plan_8_ports", |b| {
+        b.iter(|| {
+            let plan = OnOffPlan::new(black_box(&e8), &OnOffOptions::default(), &droop, &tol)
+                .expect("plans");
+            black_box(plan.entries.len())
+        })
+    });
+
     let e16 = ring_layout(16);
+    group.bench_function("onoff_plan_16_ports", |b| {
+        b.iter(|| {
+            let plan = OnOffPlan::new(black_box(&e16), &OnOffOptions::default(), &droop, &tol)
+                .expect("plans");
+            black_box(plan.entries.len())
+        })
+    });
+
     group.bench_function("envelope_with_facets_16_ports", |b| {
         b.iter(|| {
             let z = Zonotope::torque(black_box(&e16), &tol).expect("builds");

@@ -511,6 +511,35 @@ mod tests {
     }
 
     #[test]
+    fn roll_only_layout_gets_a_map_on_roll() {
+        // Tangential ports at the CG station make pure roll (r × F = (R T, 0, 0) by
+        // hand, see mingas.rs): a one-axis map. By hand, with +roll ports of 1 N and
+        // 0.8 N and −roll ports of 1.2 N on R = 27 mm and equal specific impulse, a
+        // roll command a ≤ 1.8 R is met by the +roll ports alone at least gas.
+        let r = 0.027;
+        let ports: Vec<_> = [(0.0, 1.0, 1.0), (1.0, 1.0, 0.8), (2.0, -1.0, 1.2)]
+            .iter()
+            .map(|&(k, sense, thrust)| {
+                let a = k * 2.1;
+                let travel = Vector3::new(0.0, -f64::sin(a), a.cos());
+                port_at("t", 0.0, r, a, travel * sense, thrust)
+            })
+            .collect();
+        let e = Effectiveness::from_ports(&ports).expect("valid");
+        let map = RegionMap::new(&e, &Tolerances::default()).expect("builds");
+        assert_eq!(map.axes(), &[0]);
+        // Tiles add up to the segment's length Σ|bᵢ| = (1 + 0.8 + 1.2) R.
+        assert_relative_eq!(map.covered_volume(), 3.0 * r, max_relative = 1e-12);
+        let got = map.evaluate(&Vector3::new(1.5 * r, 0.3, -0.2)).expect("covered");
+        assert_eq!(got.status, AllocationStatus::Exact);
+        assert_relative_eq!(got.torque.x, 1.5 * r, max_relative = 1e-12);
+        assert_eq!(got.duty[2], 0.0);
+        // Beyond 1.8 R the command is scaled to the segment's end.
+        let far = map.evaluate(&Vector3::new(3.6 * r, 0.0, 0.0)).expect("covered");
+        assert_relative_eq!(far.scale, 0.5, max_relative = 1e-12);
+    }
+
+    #[test]
     fn tilted_span_is_refused() {
         // Four radial ports at one station span pitch and yaw. Rotating every
         // position and exhaust rigidly by 0.2 rad about +y rotates their torques the

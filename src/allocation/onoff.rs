@@ -36,10 +36,11 @@
 //! step, so each set costs one column update; sums are recomputed from scratch
 //! every 1024 steps to keep rounding from building up); above that, one integer
 //! program per valve count k through `good_lp`/`microlp` (binary variables),
-//! which is needed because f(k) makes the thresholds depend on k. Within one
-//! valve count the integer program returns one least-gas set; when several
-//! sets of that count cost exactly the same, which of them it returns is the
-//! solver's deterministic choice rather than the mask rule above.
+//! which is needed because f(k) makes the thresholds depend on k. The same tie
+//! rule is then applied by fixing ports from the highest index down (one more
+//! integer program each): of the sets of the chosen count within ε of its least
+//! gas, the smallest mask. For near misses the integer-program path keeps the
+//! solver's choice among sets of equal shortfall and gas.
 //!
 //! When no set qualifies the plan gives the best near miss: the non-empty set
 //! with the smallest shortfall, the sum over axes of the missing amount
@@ -464,7 +465,10 @@ impl OnOffPlan {
                     }
                 }
             }
-            let sel = if let Some((_, _, ports)) = found {
+            let sel = if let Some((gas, k, ports)) = found {
+                // The same tie rule as the enumeration: of the sets this cheap with
+                // this valve count, the smallest mask.
+                let ports = smallest_mask(e, &lim, &c, k, gas)?.unwrap_or(ports);
                 OnOffSelection::Meets(valve_set(e, ports, &lim, opts.coil_current_a))
             } else {
                 let mut shortfalls = Vec::with_capacity(n);
@@ -583,6 +587,44 @@ fn ilp(
     k: usize,
     shortfall_cap: Option<f64>,
 ) -> Result<Option<(f64, Vec<usize>)>, OnOffError> {
+    ilp_pinned(e, lim, c, k, shortfall_cap, &[], None)
+}
+
+/// Of the qualifying sets of exactly k valves with gas at most `gas` (within the
+/// share tolerance), the one with the smallest mask: ports are decided from the
+/// highest index down, each left shut when a qualifying set with it shut exists.
+fn smallest_mask(
+    e: &Effectiveness,
+    lim: &Limits,
+    c: &[i8; 3],
+    k: usize,
+    gas: f64,
+) -> Result<Option<Vec<usize>>, OnOffError> {
+    let n = e.len();
+    let cap = gas * (1.0 + lim.share);
+    let mut pins: Vec<Option<bool>> = vec![None; n];
+    for i in (0..n).rev() {
+        pins[i] = Some(false);
+        if ilp_pinned(e, lim, c, k, None, &pins, Some(cap))?.is_none() {
+            pins[i] = Some(true);
+        }
+    }
+    let ports: Vec<usize> = (0..n).filter(|&i| pins[i] == Some(true)).collect();
+    // The last pin always left a qualifying set, so this one qualifies; check it.
+    Ok(ilp_pinned(e, lim, c, k, None, &pins, Some(cap))?.map(|_| ports))
+}
+
+/// As [`ilp`], with some ports pinned open (`Some(true)`) or shut, and the gas
+/// rate capped.
+fn ilp_pinned(
+    e: &Effectiveness,
+    lim: &Limits,
+    c: &[i8; 3],
+    k: usize,
+    shortfall_cap: Option<f64>,
+    pins: &[Option<bool>],
+    gas_cap: Option<f64>,
+) -> Result<Option<(f64, Vec<usize>)>, OnOffError> {
     let Binary {
         mut vars,
         v,
@@ -602,6 +644,14 @@ fn ilp(
         .collect();
     let mut p = vars.minimise(gas.clone() * f).using(microlp);
     p.add_constraint(count.eq(k as f64));
+    for (i, pin) in pins.iter().enumerate() {
+        if let Some(open) = pin {
+            p.add_constraint(Expression::from(v[i]).eq(if *open { 1.0 } else { 0.0 }));
+        }
+    }
+    if let Some(cap) = gas_cap {
+        p.add_constraint((gas.clone() * f).leq(cap));
+    }
     for a in 0..3 {
         let t = torque[a].clone() * f;
         let s = slack[a];
@@ -725,6 +775,8 @@ mod tests {
                 match (sa, sb) {
                     (OnOffSelection::Meets(x), OnOffSelection::Meets(y)) => {
                         assert_relative_eq!(x.gas_rate_kg_s, y.gas_rate_kg_s, max_relative = 1e-9);
+                        // The same tie rule on both paths: the very same set.
+                        assert_eq!(x.ports, y.ports, "case {case} command {ca:?}");
                         compared += 1;
                     }
                     (
@@ -746,6 +798,25 @@ mod tests {
             }
         }
         assert_eq!(compared, 4 * 26);
+        // Exact gas ties everywhere: mirrored roll pairs, and every port doubled by an
+        // identical copy. The integer program must pick the enumeration's set (fewer
+        // valves, then the smaller mask), not whichever tie the solver meets first.
+        for step in [0, 7, 13] {
+            let theta = FRAC_PI_4 + 0.01 * step as f64;
+            let e = if step == 7 {
+                doubled_cross(theta, -0.3, -0.1)
+            } else {
+                cross_with_roll_pairs(theta, -0.3, -0.1)
+            };
+            let o = OnOffOptions::default();
+            let a = OnOffPlan::by_enumeration(&e, &o, &droop, &tol).expect("enumerates");
+            let b = OnOffPlan::by_integer_program(&e, &o, &droop, &tol).expect("solves");
+            for ((c, sa), (_, sb)) in a.entries.iter().zip(&b.entries) {
+                if let (OnOffSelection::Meets(x), OnOffSelection::Meets(y)) = (sa, sb) {
+                    assert_eq!(x.ports, y.ports, "step {step} command {c:?}");
+                }
+            }
+        }
     }
 
     #[test]
@@ -815,6 +886,23 @@ mod tests {
     /// the roll ports `roll_arm` m and the radial ports `pitch_arm` m from the CG
     /// along the axis.
     fn cross_with_roll_pairs(theta: f64, roll_arm: f64, pitch_arm: f64) -> Effectiveness {
+        Effectiveness::from_ports(&cross_ports(theta, roll_arm, pitch_arm)).expect("valid")
+    }
+
+    /// The same ports, each followed by an identical copy: every set has an exact twin.
+    fn doubled_cross(theta: f64, roll_arm: f64, pitch_arm: f64) -> Effectiveness {
+        let ports: Vec<_> = cross_ports(theta, roll_arm, pitch_arm)
+            .into_iter()
+            .flat_map(|p| [p.clone(), p])
+            .collect();
+        Effectiveness::from_ports(&ports).expect("valid")
+    }
+
+    fn cross_ports(
+        theta: f64,
+        roll_arm: f64,
+        pitch_arm: f64,
+    ) -> Vec<crate::allocation::PortGeometry> {
         let r = 0.027;
         let mut ports: Vec<_> = (0..4)
             .map(|k| {
@@ -832,7 +920,7 @@ mod tests {
             let travel = Vector3::new(0.0, -clock.sin(), clock.cos());
             ports.push(port_at(name, roll_arm, r, clock, travel * sense, 0.9));
         }
-        Effectiveness::from_ports(&ports).expect("valid")
+        ports
     }
 
     /// Least gas (kg/s) and valve count of a qualifying set.

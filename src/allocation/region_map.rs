@@ -530,12 +530,16 @@ mod tests {
         assert_eq!(map.axes(), &[0]);
         // Tiles add up to the segment's length Σ|bᵢ| = (1 + 0.8 + 1.2) R.
         assert_relative_eq!(map.covered_volume(), 3.0 * r, max_relative = 1e-12);
-        let got = map.evaluate(&Vector3::new(1.5 * r, 0.3, -0.2)).expect("covered");
+        let got = map
+            .evaluate(&Vector3::new(1.5 * r, 0.3, -0.2))
+            .expect("covered");
         assert_eq!(got.status, AllocationStatus::Exact);
         assert_relative_eq!(got.torque.x, 1.5 * r, max_relative = 1e-12);
         assert_eq!(got.duty[2], 0.0);
         // Beyond 1.8 R the command is scaled to the segment's end.
-        let far = map.evaluate(&Vector3::new(3.6 * r, 0.0, 0.0)).expect("covered");
+        let far = map
+            .evaluate(&Vector3::new(3.6 * r, 0.0, 0.0))
+            .expect("covered");
         assert_relative_eq!(far.scale, 0.5, max_relative = 1e-12);
     }
 

@@ -157,18 +157,35 @@ pub struct Analysis {
 }
 
 /// Torque needed per axis at a state: inertia × wanted acceleration, plus the roll
-/// disturbance, plus (while burning) the motor's thrust misalignment acting at the
-/// motor nozzle's distance from the CG.
+/// disturbance, plus (while burning) the worst case of the motor thrust about the
+/// CG, all three coordinates of it.
+///
+/// The motor thrust T acts at the nozzle, on the axis at station s_n, and leans
+/// from the axis by the misalignment δ in a direction φ nobody knows. With
+/// d = (nozzle − CG) = (−L, −c_y, −c_z), L = s_n − s_cg, and
+/// F = T(cos δ, sin δ cos φ, sin δ sin φ), τ = d × F gives, each at its worst φ,
+///
+///   |τ_roll|  ≤ T sin δ √(c_y² + c_z²)
+///   |τ_pitch| ≤ T (|c_z| cos δ + |L| sin δ)
+///   |τ_yaw|   ≤ T (|c_y| cos δ + |L| sin δ)
+///
+/// so an off-axis CG adds the axial thrust's lever arm to pitch and yaw and a
+/// roll term; with the CG on the axis this is the familiar T sin δ |L|.
 pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorCondition) -> Required {
     let r = &design.requirements;
     let i = mass.inertia_diagonal();
-    let misalignment = if motor == MotorCondition::Burning {
+    let motor_torque = if motor == MotorCondition::Burning {
         let nozzle_station = design.motor.fore_station_m + design.motor.length_m;
-        r.motor_thrust_n
-            * r.thrust_misalignment_rad.sin()
-            * (nozzle_station - mass.cg_station_m).abs()
+        let lever = (nozzle_station - mass.cg_station_m).abs();
+        let (sd, cd) = r.thrust_misalignment_rad.sin_cos();
+        let t = r.motor_thrust_n;
+        [
+            t * sd * mass.cg_offset_m(),
+            t * (mass.cg_z_m.abs() * cd + lever * sd),
+            t * (mass.cg_y_m.abs() * cd + lever * sd),
+        ]
     } else {
-        0.0
+        [0.0; 3]
     };
     Required {
         from_acceleration_n_m: [
@@ -176,8 +193,27 @@ pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorConditi
             i[1] * r.pitch_accel_rad_s2,
             i[2] * r.yaw_accel_rad_s2,
         ],
-        from_disturbance_n_m: [r.roll_disturbance_n_m, misalignment, misalignment],
+        from_disturbance_n_m: [
+            r.roll_disturbance_n_m + motor_torque[0],
+            motor_torque[1],
+            motor_torque[2],
+        ],
     }
+}
+
+/// Angular acceleration attainable about each body axis alone, weaker sense, rad/s².
+///
+/// Spinning up about axis k alone at rate α needs the torque α·I·e_k, with I the
+/// full inertia tensor about the CG; when products of inertia are present that
+/// torque leans off the axis. The answer is the largest α for which both ±α·I·e_k
+/// lie inside the attainable set (an exact ray limit). With a diagonal tensor it
+/// is the axis torque over the diagonal element.
+pub fn axis_accelerations(z: &Zonotope, mass: &MassSummary) -> [f64; 3] {
+    let i = mass.inertia_tensor();
+    [0, 1, 2].map(|k| {
+        let need = i.column(k).into_owned();
+        z.max_along(&need).min(z.max_along(&-need))
+    })
 }
 
 /// Force and torque about `cg` of each port at the given thrusts.
@@ -223,8 +259,12 @@ pub fn effectiveness(
 /// Largest torques along +roll, +pitch, +yaw and along −roll, −pitch, −yaw (as positive numbers).
 type AxisPair = (Vector3<f64>, Vector3<f64>);
 
-/// Summarise the exact envelope and return the ± axis limits.
-fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, AxisPair), String> {
+/// Summarise the exact envelope and return the ± axis limits and the angular
+/// accelerations about each axis alone.
+fn envelope(
+    e: &Effectiveness,
+    mass: &MassSummary,
+) -> Result<(EnvelopeSummary, AxisPair, [f64; 3]), String> {
     let tol = Tolerances::default();
     let z = Zonotope::torque(e, &tol).map_err(|e| e.to_string())?;
     let c = Controllability::from_zonotope(e, &z, &tol);
@@ -243,6 +283,7 @@ fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, A
             controllability: c.findings(e),
         },
         (limits.positive, limits.negative),
+        axis_accelerations(&z, mass),
     ))
 }
 
@@ -271,12 +312,12 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             state: state.name.clone(),
             reason: e,
         })?;
-        let (envelope, limits) = envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
+        let (envelope, limits, accel) = envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
             state: state.name.clone(),
             reason: e,
         })?;
         let required = required_torques(design, &mass, state.motor);
-        let authority = axis_authority(limits.0, limits.1, mass.inertia_diagonal(), &required);
+        let authority = axis_authority(limits.0, limits.1, accel, &required);
         let roll_to_pitch_ratio =
             authority[0].angular_accel_rad_s2 / authority[1].angular_accel_rad_s2;
         states.push(StateReport {

@@ -198,7 +198,11 @@ fn axis_acceleration_uses_the_full_inertia_tensor() {
         // Euler's equations at rest: a pure acceleration α about axis k needs the
         // torque α·I·e_k. The reported α (weaker sense) must put ±α·I·e_k inside the
         // attainable set of the port columns, and one of them on its boundary.
-        let cols: Vec<Vector3<f64>> = st.ports.iter().map(|p| Vector3::from(p.torque_n_m)).collect();
+        let cols: Vec<Vector3<f64>> = st
+            .ports
+            .iter()
+            .map(|p| Vector3::from(p.torque_n_m))
+            .collect();
         let z = Zonotope::new(Matrix3xX::from_columns(&cols), &Tolerances::default()).unwrap();
         for k in 0..3 {
             let alpha = st.authority[k].angular_accel_rad_s2;
@@ -214,9 +218,15 @@ fn axis_acceleration_uses_the_full_inertia_tensor() {
             );
             // Dividing the axis torque by the diagonal element alone gives another
             // number when the tensor has products (that was the old, wrong model).
-            let diagonal_only = st.authority[k].positive_n_m.min(st.authority[k].negative_n_m) / i[(k, k)];
+            let diagonal_only = st.authority[k]
+                .positive_n_m
+                .min(st.authority[k].negative_n_m)
+                / i[(k, k)];
             if k == 0 {
-                assert!((diagonal_only - alpha).abs() > 1e-4 * alpha, "roll: {diagonal_only} vs {alpha}");
+                assert!(
+                    (diagonal_only - alpha).abs() > 1e-4 * alpha,
+                    "roll: {diagonal_only} vs {alpha}"
+                );
             }
         }
     }

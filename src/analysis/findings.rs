@@ -12,6 +12,9 @@ const TIGHT_MARGIN: f64 = 1.5;
 /// Margin above which an axis is called oversized.
 const GENEROUS_MARGIN: f64 = 8.0;
 
+/// How far past `[limits] max_cant` a port must be before it is reported (0.001°).
+const MAX_CANT_SLACK_RAD: f64 = 0.001 * std::f64::consts::PI / 180.0;
+
 /// Plain-words findings for the report.
 pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec<String> {
     let mut out = Vec::new();
@@ -72,6 +75,19 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
             ));
         }
     }
+    for p in &design.ports {
+        let jig = p.total_cant_rad();
+        // Equal within 0.001° counts as within the limit, so a port cut at exactly
+        // the limit is not judged by round-off (far finer than any drill jig).
+        if jig > design.max_cant_rad + MAX_CANT_SLACK_RAD {
+            out.push(format!(
+                "port `{}`: the drill is set {:.1}° from the surface normal, steeper than the {:.1}° of `[limits] max_cant`: a hole this steep is hard to start and to place; use a drill guide or reduce the cant",
+                p.name,
+                jig.to_degrees(),
+                design.max_cant_rad.to_degrees()
+            ));
+        }
+    }
     out.extend(gas.warnings.iter().cloned());
     out
 }
@@ -83,7 +99,8 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
 fn gas_for_hold(design: &Design, states: &[StateReport]) -> f64 {
     let mut worst = 0.0f64;
     for s in states {
-        let need = s.required.from_disturbance_n_m[0];
+        // The steady roll disturbance only: the motor's share lasts the burn alone.
+        let need = design.requirements.roll_disturbance_n_m;
         // Roll torque per kg/s of the best port (either sense).
         let best = s
             .ports

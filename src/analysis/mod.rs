@@ -312,10 +312,11 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             state: state.name.clone(),
             reason: e,
         })?;
-        let (envelope, limits, accel) = envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
-            state: state.name.clone(),
-            reason: e,
-        })?;
+        let (envelope, limits, accel) =
+            envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
+                state: state.name.clone(),
+                reason: e,
+            })?;
         let required = required_torques(design, &mass, state.motor);
         let authority = axis_authority(limits.0, limits.1, accel, &required);
         let roll_to_pitch_ratio =

@@ -26,15 +26,25 @@ fn locate(text: &str, after: &str, needle: &str) -> (usize, usize) {
 fn tangential_cant_past_the_through_wall_limit_is_refused_with_the_limit() {
     // Heron: 54 mm × 51 mm tube, roll holes 1.2 mm. Limit asin((25.5 − 0.6)/27)
     // = asin(0.92222) = 67.25° (pocket calculator; printed to 0.1°).
-    let text = heron().replacen("tangential_cant = \"60 deg\"", "tangential_cant = \"68 deg\"", 1);
+    let text = heron().replacen(
+        "tangential_cant = \"60 deg\"",
+        "tangential_cant = \"68 deg\"",
+        1,
+    );
     let e = parse_str(&text, "heron.toml").unwrap_err().to_string();
     let (line, col) = locate(&text, "name = \"roll-pos-a\"", "\"68 deg\"");
     assert!(
-        e.contains(&format!("heron.toml:{line}:{col}: port `roll-pos-a`.tangential_cant")),
+        e.contains(&format!(
+            "heron.toml:{line}:{col}: port `roll-pos-a`.tangential_cant"
+        )),
         "{e}"
     );
     assert!(e.contains("67.2 deg") || e.contains("67.3 deg"), "{e}");
-    let ok = heron().replacen("tangential_cant = \"60 deg\"", "tangential_cant = \"67 deg\"", 1);
+    let ok = heron().replacen(
+        "tangential_cant = \"60 deg\"",
+        "tangential_cant = \"67 deg\"",
+        1,
+    );
     assert!(parse_str(&ok, "heron.toml").is_ok());
 }
 
@@ -62,13 +72,20 @@ fn a_hole_wider_than_the_bore_is_refused_on_its_field() {
     let text = heron().replacen("hole = \"1.6 mm\"", "hole = \"52 mm\"", 1);
     let e = parse_str(&text, "heron.toml").unwrap_err().to_string();
     let (line, col) = locate(&text, "name = \"yaw-neg\"", "\"52 mm\"");
-    assert!(e.contains(&format!("heron.toml:{line}:{col}: port `yaw-neg`.hole")), "{e}");
+    assert!(
+        e.contains(&format!("heron.toml:{line}:{col}: port `yaw-neg`.hole")),
+        "{e}"
+    );
     assert!(e.contains("51.00 mm bore"), "{e}");
 }
 
 #[test]
 fn a_cant_of_exactly_ninety_degrees_axial_is_refused() {
-    let text = heron().replacen("hole = \"1.6 mm\"", "hole = \"1.6 mm\"\naxial_cant = \"90 deg\"", 1);
+    let text = heron().replacen(
+        "hole = \"1.6 mm\"",
+        "hole = \"1.6 mm\"\naxial_cant = \"90 deg\"",
+        1,
+    );
     let e = parse_str(&text, "heron.toml").unwrap_err().to_string();
     assert!(e.contains("port `yaw-neg`.axial_cant"), "{e}");
 }
@@ -78,16 +95,33 @@ fn steeper_than_max_cant_gives_a_finding() {
     // Heron's roll ports are cut at 60°, its `[limits] max_cant` is 60°: equal is
     // within the limit. Lowering the limit to 50° must report all four.
     let a = analyze(&parse_str(&heron(), "h.toml").unwrap()).unwrap();
-    assert!(!a.findings.iter().any(|f| f.contains("max_cant")), "{:?}", a.findings);
+    assert!(
+        !a.findings.iter().any(|f| f.contains("max_cant")),
+        "{:?}",
+        a.findings
+    );
     let text = heron().replace("max_cant = \"60 deg\"", "max_cant = \"50 deg\"");
     let a = analyze(&parse_str(&text, "h.toml").unwrap()).unwrap();
-    let hits: Vec<_> = a.findings.iter().filter(|f| f.contains("max_cant")).collect();
+    let hits: Vec<_> = a
+        .findings
+        .iter()
+        .filter(|f| f.contains("max_cant"))
+        .collect();
     assert_eq!(hits.len(), 4, "{hits:?}");
-    assert!(hits[0].contains("60.0°") && hits[0].contains("50.0°"), "{}", hits[0]);
+    assert!(
+        hits[0].contains("60.0°") && hits[0].contains("50.0°"),
+        "{}",
+        hits[0]
+    );
     // Without a [limits] section the default 60° applies: 61° is reported.
-    let text = heron()
-        .replace("max_cant = \"60 deg\"", "")
-        .replacen("tangential_cant = \"60 deg\"", "tangential_cant = \"61 deg\"", 1);
+    let text = heron().replace("max_cant = \"60 deg\"", "").replacen(
+        "tangential_cant = \"60 deg\"",
+        "tangential_cant = \"61 deg\"",
+        1,
+    );
     let a = analyze(&parse_str(&text, "h.toml").unwrap()).unwrap();
-    assert_eq!(a.findings.iter().filter(|f| f.contains("max_cant")).count(), 1);
+    assert_eq!(
+        a.findings.iter().filter(|f| f.contains("max_cant")).count(),
+        1
+    );
 }

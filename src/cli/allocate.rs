@@ -77,10 +77,12 @@ pub fn run(
     let tau = parse_torque(torque)?;
     let st = pick_state(analysis, state)?;
     let e = analysis::effectiveness(design, &st.mass, &st.ports).map_err(|e| anyhow!(e))?;
-    let mut alloc = MinGasAllocator::new(&e, side_force(side)?, &Tolerances::default())
-        .map_err(|e| anyhow!("{e}"))?;
+    let rule = side_force(side)?;
+    let tol = Tolerances::default();
+    let mut alloc = MinGasAllocator::new(&e, rule, &tol).map_err(|e| anyhow!("{e}"))?;
     let a = alloc.allocate(&tau).context("allocation failed")?;
     let saturated = a.status == AllocationStatus::Saturated;
+    let why = portwright::allocation::saturation::limiter(&e, rule, &tau, &a, &tol);
     if json {
         let v = serde_json::json!({
             "layout": design.name,
@@ -92,6 +94,7 @@ pub fn run(
             "gas_rate_kg_s": a.gas_rate_kg_s,
             "scale": a.scale,
             "saturated": saturated,
+            "limited_by": why.code(),
             "duty": design.ports.iter().zip(&a.duty).map(|(p, d)| serde_json::json!({"port": p.name, "duty": d})).collect::<Vec<_>>(),
         });
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
@@ -116,8 +119,8 @@ pub fn run(
         a.torque.y * 1e3,
         a.torque.z * 1e3
     );
-    if saturated {
-        let _ = writeln!(s, "SATURATED: the command is outside the envelope; {:.1} % of it is produced, in the same direction", a.scale * 100.0);
+    if let Some(line) = why.sentence() {
+        let _ = writeln!(s, "{line}");
     }
     let _ = writeln!(
         s,

@@ -112,6 +112,9 @@ pub struct StateReport {
     pub roll_to_pitch_ratio: f64,
     /// Per-port thrust with k equal ports open (the port with the largest flow).
     pub droop: Vec<DroopRow>,
+    /// The port the droop table is computed for: the largest flow, the first in
+    /// the layout among equals (within a relative 1e-9).
+    pub droop_port: String,
     /// How many ports can fire together before each one's thrust falls by more than 5 %.
     pub ports_within_5_percent: usize,
 }
@@ -306,6 +309,8 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
         let mut ports = at.ports;
         for (p, (f, t)) in ports.iter_mut().zip(&wrenches) {
             p.force_n = [f.x, f.y, f.z];
+            p.axial_force_n = f.x;
+            p.side_force_n = [f.y, f.z];
             p.torque_n_m = [t.x, t.y, t.z];
         }
         let e = effectiveness(design, &mass, &ports).map_err(|e| AnalysisError::Allocation {
@@ -335,6 +340,10 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             authority,
             roll_to_pitch_ratio,
             droop: at.droop,
+            droop_port: design
+                .ports
+                .get(at.droop_port)
+                .map_or_else(String::new, |p| p.name.clone()),
             ports_within_5_percent: at.ports_within_5_percent,
         });
     }

@@ -7,7 +7,6 @@ use portwright::allocation::Tolerances;
 use portwright::analysis::{self, Analysis};
 use portwright::model::Design;
 use portwright::units::{self, Kind};
-use std::fmt::Write;
 
 /// Parse "ROLL,PITCH,YAW", each a torque with a unit (a bare 0 is accepted).
 pub fn parse_torque(text: &str) -> Result<Vector3<f64>> {
@@ -90,7 +89,8 @@ pub fn run(
             "frame": "body axes: +x toward the nose; torques about the state's CG",
             "command_n_m": [tau.x, tau.y, tau.z],
             "achieved_torque_n_m": [a.torque.x, a.torque.y, a.torque.z],
-            "side_force_n": [a.force.x, a.force.y, a.force.z],
+            "side_force_n": [a.force.y, a.force.z],
+            "axial_force_n": a.force.x,
             "gas_rate_kg_s": a.gas_rate_kg_s,
             "scale": a.scale,
             "saturated": saturated,
@@ -99,39 +99,13 @@ pub fn run(
         });
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
-    let mut s = String::new();
-    let _ = writeln!(
-        s,
-        "least-gas firing for {} at `{}` (torques about the CG, body axes)",
-        design.name, st.name
-    );
-    let _ = writeln!(
-        s,
-        "command   roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
-        tau.x * 1e3,
-        tau.y * 1e3,
-        tau.z * 1e3
-    );
-    let _ = writeln!(
-        s,
-        "achieved  roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
-        a.torque.x * 1e3,
-        a.torque.y * 1e3,
-        a.torque.z * 1e3
-    );
-    if let Some(line) = why.sentence() {
-        let _ = writeln!(s, "{line}");
-    }
-    let _ = writeln!(
-        s,
-        "side force {:+.3} {:+.3} {:+.3} N, gas {:.3} g/s",
-        a.force.x,
-        a.force.y,
-        a.force.z,
-        a.gas_rate_kg_s * 1e3
-    );
-    for (p, d) in design.ports.iter().zip(&a.duty) {
-        let _ = writeln!(s, "  {:<14} duty {:>6.3}", p.name, d);
-    }
-    Ok(s)
+    let names: Vec<String> = design.ports.iter().map(|p| p.name.clone()).collect();
+    Ok(portwright::report::allocate::allocation_text(
+        &design.name,
+        &st.name,
+        &tau,
+        &a,
+        &why,
+        &names,
+    ))
 }

@@ -140,17 +140,23 @@ impl MassSummary {
     pub fn from_properties(p: &MassProperties) -> Self {
         let i = p.inertia_about_cg();
         let cg = p.cg();
+        // Parts placed by clock angle leave round-off (cos 90° is 6e-17, not 0):
+        // lateral CG offsets below 1 pm and products of inertia below 1e-12 of the
+        // trace are that round-off, not geometry, and are shown as zero.
+        let lateral = |v: f64| if v.abs() < 1e-12 { 0.0 } else { v };
+        let trace = i.trace().abs();
+        let product = |v: f64| if v.abs() <= 1e-12 * trace { 0.0 } else { v };
         Self {
             mass_kg: p.mass_kg(),
             cg_station_m: p.cg_station_m(),
-            cg_y_m: cg.y,
-            cg_z_m: cg.z,
+            cg_y_m: lateral(cg.y),
+            cg_z_m: lateral(cg.z),
             ixx_kg_m2: i[(0, 0)],
             iyy_kg_m2: i[(1, 1)],
             izz_kg_m2: i[(2, 2)],
-            ixy_kg_m2: i[(0, 1)],
-            ixz_kg_m2: i[(0, 2)],
-            iyz_kg_m2: i[(1, 2)],
+            ixy_kg_m2: product(i[(0, 1)]),
+            ixz_kg_m2: product(i[(0, 2)]),
+            iyz_kg_m2: product(i[(1, 2)]),
             overridden: false,
         }
     }

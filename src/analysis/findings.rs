@@ -59,9 +59,17 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
         }
     }
     if let (Some(first), Some(last)) = (states.first(), states.last()) {
+        let ratio = |s: &StateReport| {
+            if s.authority[1].angular_accel_rad_s2 > 0.0 && s.roll_to_pitch_ratio.is_finite() {
+                format!("{:.1} at {}", s.roll_to_pitch_ratio, s.name)
+            } else {
+                format!("not defined at {} (no pitch authority)", s.name)
+            }
+        };
         out.push(format!(
-            "roll-to-pitch authority ratio is {:.1} at {} and {:.1} at {}",
-            first.roll_to_pitch_ratio, first.name, last.roll_to_pitch_ratio, last.name
+            "roll-to-pitch authority ratio is {} and {}",
+            ratio(first),
+            ratio(last)
         ));
     }
     let hold = design.requirements.hold_time_s;

@@ -231,3 +231,59 @@ fn axis_acceleration_uses_the_full_inertia_tensor() {
         }
     }
 }
+
+#[test]
+fn firmware_tables_and_optimiser_merit_use_the_true_cg() {
+    use portwright::allocation::onoff::OnOffOptions;
+    use portwright::analysis::score::MarginScore;
+    use portwright::export::bundle::state_tables;
+    let (text, ..) = offset_layout();
+    let design = parse_str(&text, "offset.toml").unwrap();
+    let radius = design.airframe.outer_diameter_m / 2.0;
+    let (a, ..) = run();
+    // Firmware tables: each port's torque column is (r − c) × F about the true CG,
+    // re-derived by hand as above.
+    for st in &a.states {
+        let t = state_tables(&design, st, &OnOffOptions::default(), None).unwrap();
+        let c = [-st.mass.cg_station_m, st.mass.cg_y_m, st.mass.cg_z_m];
+        for ((p, r), entry) in design.ports.iter().zip(&st.ports).zip(&t.ports) {
+            let (pos, dir) = hand_port(
+                p.station_m,
+                p.clock_rad,
+                p.tangential_cant_rad,
+                p.axial_cant_rad,
+                radius,
+            );
+            let want = cross(
+                [pos[0] - c[0], pos[1] - c[1], pos[2] - c[2]],
+                dir.map(|d| d * r.thrust_n),
+            );
+            for k in 0..3 {
+                // 1e-12 N m: the same products in another order.
+                assert!(
+                    (entry.torque_nm[k] - want[k]).abs() < 1e-12,
+                    "{} {k}",
+                    p.name
+                );
+            }
+        }
+    }
+    // Optimiser merit: its per-axis authority at the starting layout is the
+    // analysis's (weaker sense, about the true CG), to rounding of the two
+    // ray-limit computations (1e-9 relative).
+    let score = MarginScore::new(&design, &a, &[]).unwrap();
+    let got = score.authority(&design.ports);
+    for (g, st) in got.iter().zip(&a.states) {
+        for k in 0..3 {
+            let want = st.authority[k]
+                .positive_n_m
+                .min(st.authority[k].negative_n_m);
+            assert!(
+                (g[k] - want).abs() <= 1e-9 * want.max(1e-9),
+                "{} {k}: {} vs {want}",
+                st.name,
+                g[k]
+            );
+        }
+    }
+}

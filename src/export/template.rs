@@ -440,12 +440,8 @@ fn signed_deg(rad: f64) -> String {
 
 fn jig_text(port: &Port) -> String {
     match jig_setting(port) {
-        (_, None) => "jig 0.0°: drill square to the surface".to_string(),
-        (jig, Some(dir)) => format!(
-            "jig {} from normal, tilt {} from aft",
-            signed_deg(jig),
-            signed_deg(dir)
-        ),
+        (_, None) => "jig 0.0° (square)".to_string(),
+        (jig, Some(dir)) => format!("jig {}  tilt {}", signed_deg(jig), signed_deg(dir)),
     }
 }
 
@@ -476,9 +472,9 @@ fn notes_and_rulers(svg: &mut Svg, design: &Design, s: &TemplateSettings) {
         "Clock grows to the right: clockwise seen from behind the tail toward the nose."
             .to_string(),
         "Cut on the solid outline, glue the strip under the left edge.".to_string(),
-        "Red arrows: which way each exhaust leans (tilt the drill's shank that way). Circled crosses: page alignment only."
+        "Red arrows: exhaust lean (tilt the drill that way). Circled crosses: page alignment only."
             .to_string(),
-        "Jig: drill angle from the normal; tilt: from aft (down), + toward growing clock (right)."
+        "Jig: angle from the normal. Tilt: from aft (down), + toward growing clock (right)."
             .to_string(),
         "Safety: wear eye protection, deburr every hole, check the scale before drilling."
             .to_string(),
@@ -1039,14 +1035,14 @@ mod tests {
                 .collect::<Vec<_>>()
                 .join(" ");
             if u.hypot(v) < 1e-12 {
-                assert!(text.contains("jig 0.0°: drill square"), "{text}");
+                assert!(text.contains("jig 0.0° (square)"), "{text}");
                 continue;
             }
             let mut tilt = u.atan2(v).to_degrees();
             if tilt <= -180.0 + 1e-9 {
                 tilt = 180.0;
             }
-            let want = format!("jig {jig:.1}° from normal, tilt {tilt:.1}° from aft");
+            let want = format!("jig {jig:.1}°  tilt {tilt:.1}°");
             assert!(text.contains(&want), "{}: {text} (want {want})", port.name);
             // The tilt is the lean arrow's direction on the paper (x right, y aft).
             let (dx, dy) = lean(&doc, &port.name).unwrap();

@@ -125,3 +125,38 @@ fn steeper_than_max_cant_gives_a_finding() {
         1
     );
 }
+
+#[test]
+fn every_command_refuses_an_undrillable_layout_with_exit_1_and_the_place() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("steep.toml");
+    let text = heron().replacen(
+        "tangential_cant = \"60 deg\"",
+        "tangential_cant = \"75 deg\"",
+        1,
+    );
+    std::fs::write(&path, &text).unwrap();
+    let (line, col) = locate(&text, "name = \"roll-pos-a\"", "\"75 deg\"");
+    let file = path.display().to_string();
+    let out_dir = dir.path().join("out");
+    let out = out_dir.display().to_string();
+    for args in [
+        vec!["analyze", file.as_str()],
+        vec!["run", file.as_str(), "--out", out.as_str()],
+    ] {
+        let o = std::process::Command::new(env!("CARGO_BIN_EXE_portwright"))
+            .args(&args)
+            .output()
+            .unwrap();
+        assert_eq!(o.status.code(), Some(1), "{args:?}");
+        let err = String::from_utf8_lossy(&o.stderr);
+        assert!(
+            err.contains(&format!(
+                "{file}:{line}:{col}: port `roll-pos-a`.tangential_cant"
+            )),
+            "{args:?}: {err}"
+        );
+        assert!(err.contains("through-wall limit"), "{err}");
+    }
+    assert!(!out_dir.exists(), "nothing is written for a refused layout");
+}

@@ -346,7 +346,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
     let mut warnings = Vec::new();
     if inv.supply_pressure_pa <= end {
         warnings.push(format!(
-            "the tank pressure at fill ({:.1} bar) is below what the regulator needs ({:.1} bar): no gas is usable",
+            "the tank pressure at fill ({:.1} bara) is below what the regulator needs ({:.1} bara): no gas is usable",
             inv.supply_pressure_pa / 1e5,
             end / 1e5
         ));

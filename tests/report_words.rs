@@ -79,9 +79,8 @@ fn analysis_text_says_what_every_number_is() {
     );
 }
 
-#[test]
-fn missing_authority_is_said_in_words() {
-    // Only the two yaw ports: no roll and no pitch authority at all.
+/// Heron with only its two yaw ports, no optimiser sections and no manoeuvres.
+fn yaw_only() -> String {
     let mut text = heron();
     for p in [
         "pitch-pos",
@@ -99,7 +98,34 @@ fn missing_authority_is_said_in_words() {
         text.find("[[manoeuvre]]").unwrap(),
         text.find("[[state]]").unwrap(),
     );
-    let text = format!("{}{}", &text[..m], &text[f..]);
+    format!("{}{}", &text[..m], &text[f..])
+}
+
+#[test]
+fn yaw_authority_of_a_one_axis_layout_survives_products_of_inertia() {
+    // A side mass at clock 0 moves the CG along +y and gives a product of inertia
+    // Ixy; the two yaw ports still span the yaw axis alone (their roll arm is the
+    // CG's z offset, zero). The yaw acceleration is the yaw torque over Izz.
+    let text = yaw_only();
+    let at = text.find("[[port]]").unwrap();
+    let text = format!(
+        "{}[[mass]]\nname = \"side\"\nmass = \"200 g\"\nstation = \"500 mm\"\noffset = \"20 mm\"\nclock = \"0 deg\"\n\n{}",
+        &text[..at],
+        &text[at..]
+    );
+    let a = analyze(&parse_str(&text, "h.toml").unwrap()).unwrap();
+    for st in &a.states {
+        assert!(st.mass.ixy_kg_m2.abs() > 0.0);
+        let y = &st.authority[2];
+        let want = y.positive_n_m.min(y.negative_n_m) / st.mass.izz_kg_m2;
+        // 1e-12 relative: one division.
+        assert!(want > 0.0 && (y.angular_accel_rad_s2 - want).abs() <= 1e-12 * want);
+    }
+}
+
+#[test]
+fn missing_authority_is_said_in_words() {
+    let text = yaw_only();
     let a = analyze(&parse_str(&text, "h.toml").unwrap()).unwrap();
     let t = render_text(&a);
     no_bad_numbers(&t);

@@ -211,9 +211,19 @@ pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorConditi
 /// torque leans off the axis. The answer is the largest α for which both ±α·I·e_k
 /// lie inside the attainable set (an exact ray limit). With a diagonal tensor it
 /// is the axis torque over the diagonal element.
+///
+/// When the ports span fewer than three axes, the torque α·I·e_k generally has a
+/// component no port can give, and the exact answer would be zero for an axis
+/// that does have torque; there the acceleration is the axis torque over the
+/// diagonal element instead (the missing directions are reported on their own).
 pub fn axis_accelerations(z: &Zonotope, mass: &MassSummary) -> [f64; 3] {
     let i = mass.inertia_tensor();
     [0, 1, 2].map(|k| {
+        if z.rank() < 3 {
+            let mut e = Vector3::zeros();
+            e[k] = 1.0;
+            return z.max_along(&e).min(z.max_along(&-e)) / i[(k, k)];
+        }
         let need = i.column(k).into_owned();
         z.max_along(&need).min(z.max_along(&-need))
     })

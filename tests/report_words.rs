@@ -72,6 +72,11 @@ fn analysis_text_says_what_every_number_is() {
     let cells: Vec<&str> = header.trim_matches('│').split('┆').collect();
     assert!(cells.iter().all(|c| !c.trim().is_empty()), "{header}");
     assert!(header.contains("Izz"), "{header}");
+    // The JSON form has no negative zero either.
+    let j = serde_json::to_string(&a).unwrap();
+    for bad in ["-0.0,", "-0.0]", "-0.0}"] {
+        assert!(!j.contains(bad), "JSON holds {bad}");
+    }
     // The four radial ports have equal flows: the droop table is for the first.
     assert!(
         t.contains("thrust of `yaw-neg` (largest flow; first in the layout among equals)"),

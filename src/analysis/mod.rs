@@ -318,10 +318,13 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
         let wrenches = port_wrenches(design, mass.cg(), &thrusts);
         let mut ports = at.ports;
         for (p, (f, t)) in ports.iter_mut().zip(&wrenches) {
-            p.force_n = [f.x, f.y, f.z];
-            p.axial_force_n = f.x;
-            p.side_force_n = [f.y, f.z];
-            p.torque_n_m = [t.x, t.y, t.z];
+            // `+ 0.0` turns an exact −0 (a zero cosine times a negative thrust) into
+            // +0, so no report or JSON shows a negative zero.
+            let z = |v: f64| v + 0.0;
+            p.force_n = [z(f.x), z(f.y), z(f.z)];
+            p.axial_force_n = z(f.x);
+            p.side_force_n = [z(f.y), z(f.z)];
+            p.torque_n_m = [z(t.x), z(t.y), z(t.z)];
         }
         let e = effectiveness(design, &mass, &ports).map_err(|e| AnalysisError::Allocation {
             state: state.name.clone(),

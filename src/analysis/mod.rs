@@ -70,6 +70,16 @@ pub const CAUTIONS: [&str; 5] = [
     "These figures are design estimates: confirm thrust and gas use on a test stand before relying on them.",
 ];
 
+/// Model choices the numbers depend on, listed in every report (the README
+/// states each one in full).
+pub const MODEL_NOTES: [&str; 5] = [
+    "torques are taken about each state's CG, its off-axis offset included; angular accelerations use the full inertia tensor about that CG",
+    "masses: motor case a 1 mm-wall tube of the burnout mass, propellant a solid cylinder in it while burning and none after; tank shell a 2 mm-wall tube; the gas a uniform cylinder filling the tank",
+    "a state's gas_remaining is a fraction of the isothermal usable gas; the regulator's dropout pressure is taken above the first state's ambient",
+    "plain holes: the discharge coefficient scales both the flow area and the area the pressure thrust acts on (Cd·A); nozzle stagnation density from the real-gas equation of state",
+    "total impulse = usable gas × the ports' flow-weighted mean Isp × g0; firing time with all ports open = usable gas / total flow with every valve open, at the first state",
+];
+
 /// The supply droop when k equal ports fire together.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct DroopRow {
@@ -362,6 +372,7 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     }
     let mut assumptions = design.readings.clone();
     assumptions.extend(feed::assumptions(design, &budget));
+    assumptions.extend(MODEL_NOTES.iter().map(|n| n.to_string()));
     let mut findings = findings::findings(design, &budget, &states);
     let manoeuvres = manoeuvre::plan(design, &budget, &states).map_err(AnalysisError::Gas)?;
     if let Some(p) = &manoeuvres {

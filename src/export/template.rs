@@ -540,8 +540,13 @@ const LINE_PITCH_EM: f64 = 1.2;
 /// Every printed mark and label placed so far, and the placement rule: a new item
 /// takes the first of its candidate positions whose box lies inside its allowed
 /// area and keeps [`CLEARANCE_MM`] from every box already placed.
+///
+/// Candidates that lie whole on one page are tried first, so a label is not cut by
+/// a page edge when it need not be.
 struct Placer {
     taken: Vec<Bounds>,
+    /// Each page's window on the sheet.
+    windows: Vec<Bounds>,
 }
 
 impl Placer {
@@ -550,7 +555,11 @@ impl Placer {
     }
     /// Index of the first candidate box that fits, recorded as taken.
     fn place(&mut self, candidates: &[Bounds], area: Bounds) -> Option<usize> {
-        let k = candidates.iter().position(|&b| self.fits(b, area))?;
+        let on_one_page = |b: Bounds| self.windows.iter().any(|w| b.inside(*w));
+        let k = candidates
+            .iter()
+            .position(|&b| on_one_page(b) && self.fits(b, area))
+            .or_else(|| candidates.iter().position(|&b| self.fits(b, area)))?;
         self.taken.push(candidates[k]);
         Some(k)
     }
@@ -876,7 +885,15 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Shee
     let surface = Bounds::new(0.0, top, w, top + h);
     let mut back = Svg(String::new());
     let mut front = Svg(String::new());
-    let mut placer = Placer { taken: Vec::new() };
+    let (ww, wh) = l.window_mm;
+    let mut placer = Placer {
+        taken: Vec::new(),
+        windows: l
+            .pages
+            .iter()
+            .map(|p| Bounds::new(p.x_mm, p.y_mm, p.x_mm + ww, p.y_mm + wh))
+            .collect(),
+    };
     let mut content = Vec::new();
 
     // Fixed items first: notes, rulers, holes.
@@ -1022,7 +1039,6 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Shee
     let o = s.page_overlap_mm;
     let (rows, cols) = l.grid;
     let (sx, sy) = l.step_mm(o);
-    let (ww, wh) = l.window_mm;
     let mut align = Svg(String::new());
     // The mark: circle r 3, cross ±5, "align" centred 6 mm above.
     let mark_box = |x: f64, y: f64| {
@@ -1132,7 +1148,8 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Shee
         body: ref_text,
         anchor: Anchor::Start,
         turned: true,
-        spots: [0.25 * 2.6 + 0.8, 8.0, 13.0]
+        // Clear of the station ticks (5 mm) and their labels first, on the line last.
+        spots: [11.0, 15.0, 20.0, 0.25 * 2.6 + 0.8]
             .iter()
             .flat_map(|&x| along(x))
             .collect(),
@@ -1144,7 +1161,7 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Shee
         body: "clock 360° = 0°, glue edge".to_string(),
         anchor: Anchor::Start,
         turned: true,
-        spots: [w - 0.8 * 2.2 - 0.8, w - 8.0, w - 13.0]
+        spots: [w - 11.0, w - 15.0, w - 20.0, w - 0.8 * 2.2 - 0.8]
             .iter()
             .flat_map(|&x| along(x))
             .collect(),
@@ -1638,6 +1655,30 @@ mod tests {
                 }
             }
         }
+    }
+
+    #[test]
+    fn pages_with_only_tube_outline_are_left_out() {
+        let mut d = fixture::design();
+        d.airframe.fins = None;
+        d.airframe.keep_outs.clear();
+        d.ports = vec![
+            fixture::port("fore", 0.42, 90.0, 0.0, 0.0),
+            fixture::port("aft", 0.95, 90.0, 0.0, 0.0),
+        ];
+        let s = TemplateSettings::default();
+        let l = sheet_layout(&d, &s).unwrap();
+        assert_eq!(l.grid, (3, 1), "the case needs three rows of A4");
+        let pages = drill_template_pages(&d, &s).unwrap();
+        let rows: Vec<usize> = pages.iter().map(|p| p.row).collect();
+        // Row 2 spans stations of about 0.58 to 0.85 m: surface only.
+        assert_eq!(rows, vec![1, 3]);
+        for p in &pages {
+            assert!(p
+                .svg
+                .contains(&format!("row {}, column 1 (of 3 × 1)", p.row)));
+        }
+        assert!(pages[0].svg.contains("Assembly: 3 × 1 pages"));
     }
 
     #[test]

@@ -287,7 +287,8 @@ pub fn svg_pages_to_pdf(pages: &[String], title: &str) -> Result<Vec<u8>, Export
         let states: Vec<(Ref, f32)> = page.alphas.iter().map(|&a| (alloc(), a)).collect();
         kids.push(page_id);
         let mut p = pdf.page(page_id);
-        p.media_box(Rect::new(0.0, 0.0, w_pt as f32, h_pt as f32));
+        // usvg holds sizes as f32 CSS pixels; 0.001 pt rounding gives the paper's own numbers.
+        p.media_box(Rect::new(0.0, 0.0, pt3(w_pt), pt3(h_pt)));
         p.parent(tree_id);
         p.contents(content_id);
         {

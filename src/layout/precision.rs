@@ -24,9 +24,15 @@ fn scale(unit: &str, kind: Kind) -> f64 {
     units::parse(&format!("1 {unit}"), kind).unwrap_or(f64::NAN)
 }
 
-/// `value_si` rounded to `decimals` of `unit`, as reading `"{:.decimals$} unit"` gives it.
-fn snap(value_si: f64, unit: &str, kind: Kind, decimals: i32) -> f64 {
-    let s = scale(unit, kind);
+/// SI value of 1 mm and of 1°, read once (the optimiser snaps in its inner loop).
+fn mm_and_deg() -> (f64, f64) {
+    static SCALES: std::sync::OnceLock<(f64, f64)> = std::sync::OnceLock::new();
+    *SCALES.get_or_init(|| (scale("mm", Kind::Length), scale("deg", Kind::Angle)))
+}
+
+/// `value_si` rounded to `decimals` of a unit of SI value `s`, as reading
+/// `"{:.decimals$} unit"` gives it.
+fn snap(value_si: f64, s: f64, decimals: i32) -> f64 {
     let steps = 10f64.powi(decimals);
     // q / steps with both integers exact is correctly rounded, as the text reader is,
     // and the reader multiplies by the same scale: the two agree bit for bit.
@@ -41,12 +47,12 @@ fn snap(value_si: f64, unit: &str, kind: Kind, decimals: i32) -> f64 {
 
 /// A station as the writer writes it (1 µm grid), m.
 pub fn snap_station(station_m: f64) -> f64 {
-    snap(station_m, "mm", Kind::Length, STATION_DECIMALS)
+    snap(station_m, mm_and_deg().0, STATION_DECIMALS)
 }
 
 /// An angle as the writer writes it (0.001° grid), rad.
 pub fn snap_angle(angle_rad: f64) -> f64 {
-    snap(angle_rad, "deg", Kind::Angle, ANGLE_DECIMALS)
+    snap(angle_rad, mm_and_deg().1, ANGLE_DECIMALS)
 }
 
 /// A clock angle brought into [0°, 360°) and snapped as written, rad.

@@ -117,7 +117,11 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("wrote {}", target.display());
             Ok(())
         }
-        Command::Run { layout, out, paper } => {
+        Command::Run {
+            layout,
+            out,
+            template,
+        } => {
             eprintln!("reading {}", layout.display());
             let design = layout::load(&layout)?;
             eprintln!("analysing: mass properties, gas, port flows, envelopes");
@@ -125,7 +129,7 @@ fn run(cli: Cli) -> Result<()> {
                 .with_context(|| format!("{}: analysis failed", layout.display()))?;
             eprintln!("building tables, meshes, template, plots and the report");
             let bundle =
-                portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper));
+                portwright::export::bundle::bundle(&design, &analysis, &template.settings());
             print!("{}", portwright::report::render_text(&analysis));
             println!();
             for f in &bundle.files {
@@ -135,6 +139,21 @@ fn run(cli: Cli) -> Result<()> {
             }
             for n in &bundle.not_written {
                 println!("{}", n.line());
+            }
+            Ok(())
+        }
+        Command::Template {
+            layout,
+            out,
+            template,
+        } => {
+            let design = layout::load(&layout)?;
+            for (name, bytes) in cli::template::files(&design, &template)
+                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?
+            {
+                let path = out.join(&name);
+                write_atomic(&path, &bytes, &[&layout], false)?;
+                println!("wrote {} ({} bytes)", path.display(), bytes.len());
             }
             Ok(())
         }
@@ -153,16 +172,5 @@ fn run(cli: Cli) -> Result<()> {
             }
             Ok(())
         }
-    }
-}
-
-fn template_settings(paper: cli::PaperSize) -> portwright::export::template::TemplateSettings {
-    use portwright::export::template::{Paper, TemplateSettings};
-    TemplateSettings {
-        paper: match paper {
-            cli::PaperSize::A4 => Paper::A4,
-            cli::PaperSize::Letter => Paper::Letter,
-        },
-        ..TemplateSettings::default()
     }
 }

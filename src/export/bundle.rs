@@ -579,11 +579,20 @@ pub fn bundle(design: &Design, analysis: &Analysis, template: &TemplateSettings)
     }
     match drill_template_svg(design, template) {
         Ok(pages) => {
+            let title = format!("Drilling template: {}", design.name);
+            match super::pdf::svg_pages_to_pdf(&pages, &title) {
+                Ok(pdf) => push("drill-template.pdf", pdf),
+                Err(e) => skip(&mut not_written, "drill-template.pdf", e.to_string()),
+            }
             for (k, page) in pages.into_iter().enumerate() {
                 push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
             }
         }
-        Err(e) => skip(&mut not_written, "drill-template-N.svg", e.to_string()),
+        Err(e) => skip(
+            &mut not_written,
+            "drill-template.pdf and drill-template-N.svg",
+            e.to_string(),
+        ),
     }
     let plots = match plots(design, analysis) {
         Ok(p) => p,

@@ -8,6 +8,7 @@
 
 pub mod convert;
 pub mod file;
+pub mod precision;
 pub mod write;
 
 use crate::model::Design;

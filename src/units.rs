@@ -79,6 +79,71 @@ impl Kind {
     }
 }
 
+impl Kind {
+    /// The largest magnitude accepted for this kind, SI, and the same in words.
+    ///
+    /// Far beyond any cold-gas system on a small vehicle, yet small enough that
+    /// products and squares of accepted values (inertias, torques, flows) stay
+    /// finite in `f64`. A value beyond it is a typo, not a design.
+    pub fn largest(self) -> (f64, &'static str) {
+        match self {
+            Kind::Length => (100e3, "100 km"),
+            Kind::Area => (10.0, "10 m2"),
+            Kind::Volume => (1.0, "1 m3"),
+            Kind::Pressure => (100e6, "100 MPa"),
+            Kind::Mass => (10_000.0, "10000 kg"),
+            Kind::Force => (1e6, "1000 kN"),
+            Kind::Torque => (1e5, "100000 N m"),
+            Kind::Temperature => (1_000.0, "1000 K"),
+            Kind::Angle => (4.0 * std::f64::consts::PI, "720 deg"),
+            Kind::Time => (86_400.0, "86400 s (one day)"),
+            Kind::AngularRate => (1_000.0, "1000 rad/s"),
+            Kind::AngularAcceleration => (1e5, "100000 rad/s^2"),
+            Kind::MassFlow => (100.0, "100 kg/s"),
+            Kind::Current => (1_000.0, "1000 A"),
+            Kind::Inertia => (1e5, "100000 kg m2"),
+        }
+    }
+}
+
+/// The longest quantity text read, in bytes. A quantity is a number and a unit;
+/// anything longer is a mistake, and the bound keeps reading it cheap.
+pub const MAX_QUANTITY_LEN: usize = 64;
+
+/// `text` as shown in a message: whole when short, else its first 40
+/// characters and the length, so a huge value cannot flood the terminal.
+pub fn shown(text: &str) -> String {
+    let n = text.chars().count();
+    if n <= 60 {
+        text.to_string()
+    } else {
+        let head: String = text.chars().take(40).collect();
+        format!("{head}… ({n} characters)")
+    }
+}
+
+/// A plain number as shown in a message: six significant digits at most, and
+/// words instead of NaN or infinity.
+pub fn shown_number(x: f64) -> String {
+    if x.is_nan() {
+        "a value that is not a number".to_string()
+    } else if x.is_infinite() {
+        "an infinite value".to_string()
+    } else if x == 0.0 {
+        "0".to_string()
+    } else if (1e-4..1e9).contains(&x.abs()) {
+        let digits = (5 - x.abs().log10().floor() as i32).clamp(0, 9) as usize;
+        let t = format!("{x:.digits$}");
+        if t.contains('.') {
+            t.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            t
+        }
+    } else {
+        format!("{x:.5e}")
+    }
+}
+
 impl fmt::Display for Kind {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         let (name, example) = self.describe();
@@ -165,6 +230,24 @@ pub enum UnitError {
         text: String,
         /// The unit found.
         unit: String,
+    },
+    /// Longer than any quantity.
+    #[error("expected {expected}, found a text of {length} characters (a quantity is a number and a unit)")]
+    TooLong {
+        /// What was expected.
+        expected: Kind,
+        /// Its length in characters.
+        length: usize,
+    },
+    /// Beyond [`Kind::largest`].
+    #[error("expected {expected} of at most {largest} in size, found \"{text}\"")]
+    OutOfRange {
+        /// What was expected.
+        expected: Kind,
+        /// The text given.
+        text: String,
+        /// The bound, in words.
+        largest: &'static str,
     },
     /// NaN or infinite.
     #[error("expected {expected}, found \"{text}\" (not a finite number)")]
@@ -447,6 +530,12 @@ fn lookup(unit: &str) -> Option<&'static UnitRow> {
 }
 
 fn parse_row(text: &str, expected: Kind) -> Result<(f64, &'static UnitRow), UnitError> {
+    if text.len() > MAX_QUANTITY_LEN {
+        return Err(UnitError::TooLong {
+            expected,
+            length: text.chars().count(),
+        });
+    }
     let (value, unit, _) = split_number(text).ok_or_else(|| UnitError::NoNumber {
         expected,
         text: text.to_string(),
@@ -482,14 +571,27 @@ fn parse_row(text: &str, expected: Kind) -> Result<(f64, &'static UnitRow), Unit
 /// Parse a quantity of the given kind into SI. For pressures use [`parse_pressure`].
 pub fn parse(text: &str, expected: Kind) -> Result<f64, UnitError> {
     let (value, row) = parse_row(text, expected)?;
-    Ok(value * row.scale + row.offset)
+    within_range(value * row.scale + row.offset, text, expected)
+}
+
+fn within_range(v: f64, text: &str, expected: Kind) -> Result<f64, UnitError> {
+    let (largest, words) = expected.largest();
+    if v.is_finite() && v.abs() <= largest {
+        Ok(v)
+    } else {
+        Err(UnitError::OutOfRange {
+            expected,
+            text: text.to_string(),
+            largest: words,
+        })
+    }
 }
 
 /// Parse a pressure, keeping whether it was gauge or absolute.
 pub fn parse_pressure(text: &str) -> Result<PressureValue, UnitError> {
     let (value, row) = parse_row(text, Kind::Pressure)?;
     Ok(PressureValue {
-        pa: value * row.scale,
+        pa: within_range(value * row.scale, text, Kind::Pressure)?,
         reference: row.reference.unwrap_or(PressureReference::Absolute),
     })
 }

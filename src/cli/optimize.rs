@@ -8,10 +8,11 @@ use portwright::analysis::score::{MarginScore, Objective, Term};
 use portwright::analysis::{self, Analysis};
 use portwright::export::plots::{best_so_far, convergence_svg, Convergence, PlotSettings, Sense};
 use portwright::layout;
+use portwright::layout::{Layout, OptimizerSections};
 use portwright::model::Design;
 use portwright::optimize::constraints::{Constraints, Limits};
+use portwright::optimize::optimize;
 use portwright::optimize::search::{Outcome, SearchSettings};
-use portwright::optimize::{optimize, sections_from_str, SectionError, Sections};
 use std::fmt::Write;
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Duration;
@@ -36,24 +37,14 @@ pub struct Options {
     pub max_evals: Option<usize>,
     /// Wall-clock limit, s.
     pub time_limit: Option<f64>,
-    /// Objective text.
-    pub objective: Option<String>,
+    /// Objective.
+    pub objective: Option<Objective>,
     /// Lexicographic tolerance.
     pub then_within: Option<f64>,
-    /// Side-force limit text, e.g. "0.5 N" or "0 N".
-    pub side_force: Option<String>,
+    /// Side-force limit.
+    pub side_force: Option<SideForceLimit>,
     /// Print JSON instead of text.
     pub json: bool,
-}
-
-/// `file:line:col: section.field: message`, or `file: section.field: message`
-/// when the place is unknown.
-fn in_file(source: &str, e: &SectionError) -> anyhow::Error {
-    if e.line == 0 {
-        anyhow!("{source}: {e}")
-    } else {
-        anyhow!("{source}:{e}")
-    }
 }
 
 /// What one layout achieves, as the report shows it.
@@ -149,43 +140,45 @@ fn summarize(
 
 /// Run the search and build the before/after report.
 pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Result<Optimised> {
-    let design = layout::parse_str(text, source)?;
-    let Sections {
-        freedoms,
-        limits,
-        plan,
-    } = sections_from_str(text).map_err(|e| in_file(source, &e))?;
+    let Layout {
+        design,
+        optimizer:
+            OptimizerSections {
+                freedoms,
+                limits,
+                plan,
+            },
+    } = layout::parse_layout(text, source)?;
     if freedoms.is_empty() {
         bail!("{source}: no [[freedom]] sections: say which ports may move and how far (see the README)");
     }
-    let objective = match (&opts.objective, &plan.objective) {
-        (Some(t), _) => Objective::parse(t).map_err(|e| anyhow!("--objective: {e}"))?,
-        (None, Some(t)) => Objective::parse(t).map_err(|e| {
-            in_file(
-                source,
-                &SectionError::new("optimize", "objective", e).located(text),
-            )
-        })?,
-        (None, None) => Objective::default(),
-    };
-    let objective = match (opts.then_within, plan.then_within) {
-        (Some(f), _) => objective
+    // The layout reader has checked the file's objective and `then_within`;
+    // the options were checked when the command line was read.
+    let objective = opts
+        .objective
+        .clone()
+        .or(plan.objective)
+        .unwrap_or_default();
+    let objective = match opts.then_within.or(plan.then_within) {
+        Some(f) => objective
             .with_then_within(f)
             .map_err(|e| anyhow!("--then-within: {e}"))?,
-        (None, Some(f)) => objective
-            .with_then_within(f)
-            .map_err(|e| anyhow!("{source}: optimize.then_within: {e}"))?,
-        (None, None) => objective,
+        None => objective,
     };
-    let side = match &opts.side_force {
-        Some(t) => super::allocate::side_force(Some(t))?,
-        None => SideForceLimit::from_newtons(limits.side_force_n),
-    };
+    let side = opts
+        .side_force
+        .unwrap_or_else(|| SideForceLimit::from_newtons(limits.side_force_n));
     let seed = opts.seed.or(plan.seed).unwrap_or(1);
-    let max_evals = opts.max_evals.or(plan.max_evaluations).unwrap_or(20_000);
-    if max_evals < 2 {
-        bail!("--max-evals: expected at least 2");
-    }
+    let least = layout::optimizer::least_evaluations(&design, &freedoms, objective.stages.len());
+    let max_evals = match opts.max_evals {
+        Some(n) if n < least => {
+            return Err(anyhow::Error::new(super::values::UsageError(format!(
+                "--max-evals: expected at least {least} for these freedoms and this objective (one generation of the search: its population plus one, for each stage), found {n}"
+            ))))
+        }
+        Some(n) => n,
+        None => plan.max_evaluations.unwrap_or(20_000).max(least),
+    };
     let time_limit = opts.time_limit.or(plan.time_limit_s);
 
     let before = analysis::analyze(&design)?;

@@ -19,6 +19,10 @@ use toml::Spanned;
 /// The optimiser uses its own, usually larger, margin.
 const PLACEMENT_MARGIN_M: f64 = 0.0;
 
+/// Largest station, length or diameter accepted, m. Altitudes have their own
+/// range (the standard atmosphere's).
+pub const MAX_BODY_LENGTH_M: f64 = 100.0;
+
 struct Reader<'a> {
     text: &'a str,
     problems: Vec<Diagnostic>,
@@ -38,6 +42,21 @@ impl<'a> Reader<'a> {
 
     fn qty(&mut self, q: &Q, field: &str, kind: Kind) -> f64 {
         match units::parse(q.get_ref(), kind) {
+            Ok(v)
+                if kind == Kind::Length
+                    && v.abs() > MAX_BODY_LENGTH_M
+                    && !field.ends_with(".altitude") =>
+            {
+                self.problem(
+                    q.span(),
+                    field,
+                    format!(
+                        "expected a length within 100 m of the nose tip (no vehicle is longer), found \"{}\"",
+                        units::shown(q.get_ref())
+                    ),
+                );
+                f64::NAN
+            }
             Ok(v) => v,
             Err(e) => {
                 self.problem(q.span(), field, e.to_string());

@@ -41,9 +41,7 @@ fn run(cli: Cli) -> Result<()> {
             side_force,
             json,
         } => {
-            let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let (design, analysis) = load_and_analyze(&layout)?;
             print!(
                 "{}",
                 cli::allocate::run(
@@ -67,9 +65,7 @@ fn run(cli: Cli) -> Result<()> {
             tolerance,
         } => {
             check_distinct(&[("--out", &out)], &[&layout])?;
-            let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let (design, analysis) = load_and_analyze(&layout)?;
             let text = cli::table::render(
                 &design,
                 &analysis,
@@ -151,10 +147,7 @@ fn run(cli: Cli) -> Result<()> {
                 ))));
             }
             eprintln!("reading {}", layout.display());
-            let design = layout::load(&layout)?;
-            eprintln!("analysing: mass properties, gas, port flows, envelopes");
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let (design, analysis) = load_and_analyze(&layout)?;
             eprintln!("building tables, meshes, template, plots and the report");
             let files =
                 portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper))
@@ -180,9 +173,7 @@ fn run(cli: Cli) -> Result<()> {
             if let Some(o) = &out {
                 check_distinct(&[("--out", o)], &[&layout])?;
             }
-            let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let (_, analysis) = load_and_analyze(&layout)?;
             let text = if json {
                 serde_json::to_string_pretty(&analysis)? + "\n"
             } else {
@@ -195,6 +186,19 @@ fn run(cli: Cli) -> Result<()> {
             Ok(())
         }
     }
+}
+
+/// Read, check and analyse a layout; a problem the analysis finds is placed at
+/// the layout field behind it.
+fn load_and_analyze(
+    path: &std::path::Path,
+) -> Result<(portwright::model::Design, portwright::analysis::Analysis)> {
+    let text = layout::read_text(path)?;
+    let name = path.display().to_string();
+    let design = layout::parse_str(&text, &name)?;
+    let analysis = portwright::analysis::analyze(&design)
+        .map_err(|e| layout::locate::analysis_problem(&text, &name, &e))?;
+    Ok((design, analysis))
 }
 
 fn template_settings(paper: cli::PaperSize) -> portwright::export::template::TemplateSettings {

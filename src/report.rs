@@ -4,6 +4,7 @@
 //! bar and psi) while the JSON form keeps SI with the unit in each field name.
 
 use crate::analysis::Analysis;
+use crate::units::signed;
 use comfy_table::{presets::UTF8_FULL_CONDENSED, Cell, CellAlignment, Table};
 use std::fmt::Write;
 
@@ -18,9 +19,18 @@ fn table(headers: &[&str]) -> Table {
 
 fn num(v: f64, decimals: usize) -> Cell {
     let text = if v.is_finite() {
-        format!("{v:.decimals$}")
+        let t = format!("{v:.decimals$}");
+        // A value that rounds to zero is shown without a sign.
+        if t.trim_start_matches('-')
+            .chars()
+            .all(|c| c == '0' || c == '.')
+        {
+            t.trim_start_matches('-').to_string()
+        } else {
+            t
+        }
     } else {
-        "—".to_string()
+        "not available".to_string()
     };
     Cell::new(text).set_alignment(CellAlignment::Right)
 }
@@ -182,14 +192,16 @@ pub fn render_text(a: &Analysis) -> String {
                 num(p.mass_flow_kg_s * 1e3, 3),
                 num(p.specific_impulse_s, 1),
                 Cell::new(format!(
-                    "{:+.2} {:+.2} {:+.2}",
-                    p.force_n[0], p.force_n[1], p.force_n[2]
+                    "{} {} {}",
+                    signed(p.force_n[0], 2),
+                    signed(p.force_n[1], 2),
+                    signed(p.force_n[2], 2)
                 )),
                 Cell::new(format!(
-                    "{:+.1} {:+.1} {:+.1}",
-                    p.torque_n_m[0] * 1e3,
-                    p.torque_n_m[1] * 1e3,
-                    p.torque_n_m[2] * 1e3
+                    "{} {} {}",
+                    signed(p.torque_n_m[0] * 1e3, 1),
+                    signed(p.torque_n_m[1] * 1e3, 1),
+                    signed(p.torque_n_m[2] * 1e3, 1)
                 )),
                 Cell::new(&p.nozzle_regime),
             ]);
@@ -210,7 +222,10 @@ pub fn render_text(a: &Analysis) -> String {
                 num(ax.negative_n_m * 1e3, 1),
                 num(ax.angular_accel_rad_s2.to_degrees(), 0),
                 num(ax.required_n_m * 1e3, 2),
-                num(ax.margin, 2),
+                match ax.margin_note {
+                    Some(_) => Cell::new("none required").set_alignment(CellAlignment::Right),
+                    None => num(ax.margin, 2),
+                },
             ]);
         }
         let _ = writeln!(s, "{t}");

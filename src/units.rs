@@ -144,6 +144,17 @@ pub fn shown_number(x: f64) -> String {
     }
 }
 
+/// `v` with its sign and `decimals` decimals, for columns of signed values; a
+/// value that rounds to zero is written "0.00" (no sign), never "-0.00".
+pub fn signed(v: f64, decimals: usize) -> String {
+    let t = format!("{v:+.decimals$}");
+    if t[1..].chars().all(|c| c == '0' || c == '.') {
+        format!("{:.decimals$}", 0.0)
+    } else {
+        t
+    }
+}
+
 impl fmt::Display for Kind {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         let (name, example) = self.describe();

@@ -6,6 +6,7 @@ use portwright::allocation::mingas::{AllocationStatus, MinGasAllocator, SideForc
 use portwright::allocation::Tolerances;
 use portwright::analysis::{self, Analysis};
 use portwright::model::Design;
+use portwright::units::signed;
 use std::fmt::Write;
 
 /// Pick a state report by name (or the first).
@@ -75,27 +76,27 @@ pub fn run(
     );
     let _ = writeln!(
         s,
-        "command   roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
-        tau.x * 1e3,
-        tau.y * 1e3,
-        tau.z * 1e3
+        "command   roll {}  pitch {}  yaw {} mN m",
+        signed(tau.x * 1e3, 2),
+        signed(tau.y * 1e3, 2),
+        signed(tau.z * 1e3, 2)
     );
     let _ = writeln!(
         s,
-        "achieved  roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
-        a.torque.x * 1e3,
-        a.torque.y * 1e3,
-        a.torque.z * 1e3
+        "achieved  roll {}  pitch {}  yaw {} mN m",
+        signed(a.torque.x * 1e3, 2),
+        signed(a.torque.y * 1e3, 2),
+        signed(a.torque.z * 1e3, 2)
     );
     if saturated {
         let _ = writeln!(s, "SATURATED: the command is outside the envelope; {:.1} % of it is produced, in the same direction", a.scale * 100.0);
     }
     let _ = writeln!(
         s,
-        "side force {:+.3} {:+.3} {:+.3} N, gas {:.3} g/s",
-        a.force.x,
-        a.force.y,
-        a.force.z,
+        "side force {} {} {} N, gas {:.3} g/s",
+        signed(a.force.x, 3),
+        signed(a.force.y, 3),
+        signed(a.force.z, 3),
         a.gas_rate_kg_s * 1e3
     );
     for (p, d) in design.ports.iter().zip(&a.duty) {

@@ -13,6 +13,7 @@ use portwright::model::Design;
 use portwright::optimize::constraints::{Constraints, Limits};
 use portwright::optimize::optimize;
 use portwright::optimize::search::{Outcome, SearchSettings};
+use portwright::units::signed;
 use std::fmt::Write;
 use std::sync::atomic::{AtomicBool, Ordering};
 use std::time::Duration;
@@ -350,6 +351,7 @@ fn summary_json(s: &Summary) -> serde_json::Value {
             "authority_n_m": st.authority,
             "required_n_m": st.required,
             "margin": st.margin.map(finite),
+            "margin_note": st.required.map(|r| (r <= 0.0).then_some(portwright::analysis::authority::NO_REQUIREMENT)),
             "gas_at_required_kg_s": st.gas_kg_s,
             "side_force_at_required_n": st.side_n,
             "required_out_of_reach": st.saturated,
@@ -467,7 +469,7 @@ fn report(
                 if st.margin[k].is_finite() {
                     format!("{:.2}", st.margin[k])
                 } else {
-                    "-".to_string()
+                    "none required".to_string()
                 }
             };
             let gas = |st: &StateSummary| match st.gas_kg_s[k] {
@@ -541,12 +543,12 @@ fn report(
         any = true;
         let _ = writeln!(
             s,
-            "  {:<14} station {:+.1} mm, clock {:+.1} deg, tangential cant {:+.1} deg, axial cant {:+.1} deg, hole {:.2} -> {:.2} mm",
+            "  {:<14} station {} mm, clock {} deg, tangential cant {} deg, axial cant {} deg, hole {:.2} -> {:.2} mm",
             a.name,
-            (b.station_m - a.station_m) * 1e3,
-            wrap(b.clock_rad - a.clock_rad).to_degrees(),
-            (b.tangential_cant_rad - a.tangential_cant_rad).to_degrees(),
-            (b.axial_cant_rad - a.axial_cant_rad).to_degrees(),
+            signed((b.station_m - a.station_m) * 1e3, 1),
+            signed(wrap(b.clock_rad - a.clock_rad).to_degrees(), 1),
+            signed((b.tangential_cant_rad - a.tangential_cant_rad).to_degrees(), 1),
+            signed((b.axial_cant_rad - a.axial_cant_rad).to_degrees(), 1),
             a.nozzle.hole_diameter_m() * 1e3,
             b.nozzle.hole_diameter_m() * 1e3
         );

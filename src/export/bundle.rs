@@ -18,6 +18,7 @@ use crate::allocation::Tolerances;
 use crate::analysis::score::ray_limit;
 use crate::analysis::{effectiveness, Analysis, StateReport};
 use crate::model::Design;
+use crate::units::signed;
 use nalgebra::Vector3;
 
 /// One output file.
@@ -217,7 +218,7 @@ pub fn html_report(
                             format!("{:.3}", p.thrust_n),
                             format!("{:.3}", p.mass_flow_kg_s * 1e3),
                             format!("{:.1}", p.specific_impulse_s),
-                            format!("{:+.1} / {:+.1} / {:+.1}", p.torque_n_m[0] * 1e3, p.torque_n_m[1] * 1e3, p.torque_n_m[2] * 1e3),
+                            format!("{} / {} / {}", signed(p.torque_n_m[0] * 1e3, 1), signed(p.torque_n_m[1] * 1e3, 1), signed(p.torque_n_m[2] * 1e3, 1)),
                         ]
                     })
                     .collect(),
@@ -235,7 +236,10 @@ pub fn html_report(
                             format!("{:.1}", a.negative_n_m * 1e3),
                             format!("{:.0}", a.angular_accel_rad_s2.to_degrees()),
                             format!("{:.2}", a.required_n_m * 1e3),
-                            format!("{:.2}", a.margin),
+                            match a.margin_note {
+                                Some(_) => "none required".to_string(),
+                                None => format!("{:.2}", a.margin),
+                            },
                         ]
                     })
                     .collect(),

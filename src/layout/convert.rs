@@ -23,6 +23,10 @@ const PLACEMENT_MARGIN_M: f64 = 0.0;
 /// range (the standard atmosphere's).
 pub const MAX_BODY_LENGTH_M: f64 = 100.0;
 
+/// Largest thrust misalignment accepted, degrees. Motor misalignments are
+/// fractions of a degree; the bound keeps sin(angle) growing with the angle.
+pub const MAX_MISALIGNMENT_DEG: f64 = 10.0;
+
 struct Reader<'a> {
     text: &'a str,
     problems: Vec<Diagnostic>,
@@ -168,7 +172,10 @@ impl<'a> Reader<'a> {
                     self.problem(
                         s.span(),
                         field,
-                        format!("expected a number from {low} to {high}, found {x}"),
+                        format!(
+                            "expected a number from {low} to {high}, found {}",
+                            units::shown_number(x)
+                        ),
                     );
                 }
                 x
@@ -182,7 +189,10 @@ impl<'a> Reader<'a> {
             self.problem(
                 v.span(),
                 field,
-                format!("expected a number above zero, found {x}"),
+                format!(
+                    "expected a number above zero, found {}",
+                    units::shown_number(x)
+                ),
             );
         }
         x
@@ -611,10 +621,23 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
                 1.0,
             ),
         },
-        (None, Some(d), Some(at)) => SupplyCapacity::Droop {
-            droop_pa: r.pressure_difference(d, "feed.regulator.droop"),
-            at_flow_kg_s: r.positive(at, "feed.regulator.droop_at", Kind::MassFlow),
-        },
+        (None, Some(d), Some(at)) => {
+            let droop_pa = r.pressure_difference(d, "feed.regulator.droop");
+            let at_flow_kg_s = r.positive(at, "feed.regulator.droop_at", Kind::MassFlow);
+            if droop_pa == 0.0 {
+                // No droop at all: the regulator holds its set pressure at any flow.
+                r.readings.push(format!(
+                    "feed.regulator.droop = \"{}\" means no droop: the regulator holds its set pressure at any flow",
+                    units::shown(d.get_ref())
+                ));
+                SupplyCapacity::Unlimited
+            } else {
+                SupplyCapacity::Droop {
+                    droop_pa,
+                    at_flow_kg_s,
+                }
+            }
+        }
         _ => {
             r.problem(
                 f.regulator.span(),
@@ -837,12 +860,28 @@ fn read_requirements(r: &mut Reader, q: &RequirementsFile) -> Requirements {
             Kind::Force,
             0.0,
         ),
-        thrust_misalignment_rad: r.opt_non_negative(
-            q.thrust_misalignment.as_ref(),
-            "requirements.thrust_misalignment",
-            Kind::Angle,
-            0.0,
-        ),
+        thrust_misalignment_rad: {
+            let v = r.opt_non_negative(
+                q.thrust_misalignment.as_ref(),
+                "requirements.thrust_misalignment",
+                Kind::Angle,
+                0.0,
+            );
+            match &q.thrust_misalignment {
+                Some(t) if v.is_finite() && v > MAX_MISALIGNMENT_DEG.to_radians() => {
+                    r.problem(
+                        t.span(),
+                        "requirements.thrust_misalignment",
+                        format!(
+                            "expected an angle from 0 deg to {MAX_MISALIGNMENT_DEG:.0} deg (a motor further off the axis is not a misalignment), found \"{}\"",
+                            units::shown(t.get_ref())
+                        ),
+                    );
+                    f64::NAN
+                }
+                _ => v,
+            }
+        },
         roll_disturbance_n_m: r.opt_non_negative(
             q.roll_disturbance.as_ref(),
             "requirements.roll_disturbance",

@@ -8,6 +8,7 @@
 
 pub mod convert;
 pub mod file;
+pub mod locate;
 pub mod optimizer;
 mod syntax;
 mod text_bounds;

@@ -27,7 +27,13 @@ const TEXT_FIELDS: &[&str] = &[
 
 /// A problem for a TOML or type error, with the field named.
 pub fn problem(text: &str, e: &toml::de::Error) -> Diagnostic {
-    let mut message = e.message().trim().to_string();
+    let mut message = e
+        .message()
+        .trim()
+        .replace("floating point `NaN`", "the bare word `nan`")
+        .replace("floating point `-NaN`", "the bare word `-nan`")
+        .replace("floating point `inf`", "the bare word `inf`")
+        .replace("floating point `-inf`", "the bare word `-inf`");
     let Some(span) = e.span() else {
         return Diagnostic {
             line: 1,

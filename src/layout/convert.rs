@@ -45,12 +45,16 @@ impl<'a> Reader<'a> {
     }
 
     fn qty(&mut self, q: &Q, field: &str, kind: Kind) -> f64 {
+        // Stations, lengths and diameters have a tighter range than altitudes.
+        let body_length = kind == Kind::Length && !field.ends_with(".altitude");
+        let out_of_body = |v: f64| body_length && v.abs() > MAX_BODY_LENGTH_M;
         match units::parse(q.get_ref(), kind) {
-            Ok(v)
-                if kind == Kind::Length
-                    && v.abs() > MAX_BODY_LENGTH_M
-                    && !field.ends_with(".altitude") =>
-            {
+            Ok(v) if !out_of_body(v) => v,
+            Err(e) if !(body_length && matches!(e, units::UnitError::OutOfRange { .. })) => {
+                self.problem(q.span(), field, e.to_string());
+                f64::NAN
+            }
+            _ => {
                 self.problem(
                     q.span(),
                     field,
@@ -59,11 +63,6 @@ impl<'a> Reader<'a> {
                         units::shown(q.get_ref())
                     ),
                 );
-                f64::NAN
-            }
-            Ok(v) => v,
-            Err(e) => {
-                self.problem(q.span(), field, e.to_string());
                 f64::NAN
             }
         }

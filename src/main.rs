@@ -106,16 +106,6 @@ fn run(cli: Cli) -> Result<()> {
                 outputs.push(("--plot", p));
             }
             check_distinct(&outputs, &[&layout])?;
-            if in_place
-                && plot.as_deref().is_some_and(|p| {
-                    cli::output::destination(p) == cli::output::destination(&layout)
-                })
-            {
-                return Err(anyhow::Error::new(UsageError(format!(
-                    "--plot {}: is the layout that --in-place rewrites; give the plot its own file",
-                    layout.display()
-                ))));
-            }
             let text = layout::read_text(&layout)?;
             let stop = Arc::new(AtomicBool::new(false));
             let flag = stop.clone();

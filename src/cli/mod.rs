@@ -39,6 +39,7 @@ pub struct Cli {
 #[derive(Debug, Subcommand)]
 pub enum Command {
     /// The whole job: analysis, firmware tables, STL, drilling template, plots and an HTML report.
+    #[command(after_help = AFTER_HELP)]
     Run {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -50,6 +51,7 @@ pub enum Command {
         paper: PaperSize,
     },
     /// Mass properties, gas budget, per-port thrust, torques, authority and findings.
+    #[command(after_help = AFTER_HELP)]
     Analyze {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -61,6 +63,7 @@ pub enum Command {
         out: Option<PathBuf>,
     },
     /// Least-gas duty cycles for a commanded torque.
+    #[command(after_help = AFTER_HELP)]
     Allocate {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -78,6 +81,7 @@ pub enum Command {
         json: bool,
     },
     /// Firmware allocation tables: on/off valve sets, the exact duty-cycle map, optional grid.
+    #[command(after_help = AFTER_HELP)]
     Table {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -101,6 +105,7 @@ pub enum Command {
         tolerance: f64,
     },
     /// Search port stations, clocks, cants and hole sizes for the best worst-case margin.
+    #[command(after_help = AFTER_HELP)]
     Optimize {
         /// Layout file (TOML) with [[freedom]] sections saying what may move.
         layout: PathBuf,

@@ -55,8 +55,13 @@ pub fn check_distinct(outputs: &[(&str, &Path)], inputs: &[&Path]) -> Result<()>
     for (k, (option, out)) in outputs.iter().enumerate() {
         for input in inputs {
             if same_file(out, input) {
+                let hint = if *option == "--out" {
+                    " (optimize takes --in-place for that)"
+                } else {
+                    ""
+                };
                 return Err(anyhow::Error::new(UsageError(format!(
-                    "{option} {}: is the input layout; refusing to overwrite it (optimize takes --in-place for that)",
+                    "{option} {}: is the input layout; refusing to overwrite it{hint}",
                     out.display()
                 ))));
             }
@@ -80,6 +85,17 @@ pub fn write_atomic(
     bytes: &[u8],
     protected: &[&Path],
     allow_inputs: bool,
+) -> Result<Written> {
+    write_atomic_with(path, protected, allow_inputs, |w| w.write_all(bytes))
+}
+
+/// [`write_atomic`] with the content written by `fill`; when `fill` fails part
+/// way, the temporary file is removed and the old file is left as it was.
+pub fn write_atomic_with(
+    path: &Path,
+    protected: &[&Path],
+    allow_inputs: bool,
+    fill: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
 ) -> Result<Written> {
     if !allow_inputs {
         for p in protected {
@@ -107,8 +123,7 @@ pub fn write_atomic(
     let mut tmp = builder
         .tempfile_in(&dir)
         .with_context(|| format!("{}: cannot create a temporary file", dir.display()))?;
-    tmp.write_all(bytes)
-        .with_context(|| format!("{}: cannot write", path.display()))?;
+    fill(tmp.as_file_mut()).with_context(|| format!("{}: cannot write", path.display()))?;
     if let Some(m) = &old {
         std::fs::set_permissions(tmp.path(), m.permissions())
             .with_context(|| format!("{}: cannot keep the file's mode", path.display()))?;
@@ -131,5 +146,33 @@ fn same_file(a: &Path, b: &Path) -> bool {
     match (a.canonicalize(), b.canonicalize()) {
         (Ok(x), Ok(y)) => x == y,
         _ => a == b,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_write_that_fails_half_way_leaves_the_old_file_and_no_temporary() {
+        let dir = tempfile::tempdir().unwrap();
+        let path = dir.path().join("out.txt");
+        std::fs::write(&path, "old").unwrap();
+        let r = write_atomic_with(&path, &[], false, |w| {
+            w.write_all(b"half of the new")?;
+            Err(std::io::Error::other("serialisation failed"))
+        });
+        assert!(r.is_err());
+        assert_eq!(std::fs::read_to_string(&path).unwrap(), "old");
+        let names: Vec<_> = std::fs::read_dir(dir.path())
+            .unwrap()
+            .map(|e| e.unwrap().file_name())
+            .collect();
+        assert_eq!(names.len(), 1, "{names:?}");
+        assert_eq!(
+            write_atomic(&path, b"new", &[], false).unwrap(),
+            Written::Replaced
+        );
+        assert_eq!(std::fs::read_to_string(&path).unwrap(), "new");
     }
 }

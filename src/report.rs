@@ -35,8 +35,9 @@ fn num(v: f64, decimals: usize) -> Cell {
     Cell::new(text).set_alignment(CellAlignment::Right)
 }
 
+/// An absolute pressure in bar and psi, marked absolute.
 fn bar_psi(pa: f64) -> String {
-    format!("{:.2} bar ({:.0} psi)", pa / 1e5, pa / PSI_PA)
+    format!("{:.2} bar absolute ({:.0} psia)", pa / 1e5, pa / PSI_PA)
 }
 
 /// Render the report as text.
@@ -169,12 +170,15 @@ pub fn render_text(a: &Analysis) -> String {
     for st in &a.states {
         let _ = writeln!(
             s,
-            "State `{}`: {:.0} m, ambient {:.1} kPa, manifold {} with one valve open, motor {:?}",
+            "State `{}`: altitude {} m, ambient {:.1} kPa absolute, manifold {} with one valve open, motor {}",
             st.name,
-            st.altitude_m,
+            signed(st.altitude_m, 0).trim_start_matches('+'),
             st.ambient_pressure_pa / 1e3,
             bar_psi(st.regulated_pressure_pa),
-            st.motor
+            match st.motor {
+                crate::model::MotorCondition::Burning => "burning",
+                crate::model::MotorCondition::Burnout => "burnt out",
+            }
         );
         let mut t = table(&[
             "port",

@@ -173,3 +173,68 @@ fn layout_problems_exit_1_and_help_documents_the_codes() {
         "{text}"
     );
 }
+
+/// Awkward option values: empty, huge, non-finite, negative, wrong units, long.
+const NASTY: &[&str] = &[
+    "",
+    "0",
+    "-0",
+    "-1",
+    "nan",
+    "inf",
+    "1e308",
+    "99999999999999999999999",
+    "2 s",
+    "-1 N",
+    "3 kg",
+    "0.5",
+    "7,0,0",
+    "0,0,0",
+    "1 N m,nan N m,0",
+    "margin then",
+    "ratio:0",
+    "liftoff",
+    "CSV",
+    "ring",
+];
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig {
+        cases: 48,
+        failure_persistence: None,
+        ..proptest::prelude::ProptestConfig::default()
+    })]
+    /// Mutated command lines end with 0, 1 or 2 and never a panic.
+    #[test]
+    fn mutated_command_lines_never_crash(which in 0usize..12, value in 0usize..100, long in proptest::bool::ANY) {
+        let dir = tempfile::tempdir().unwrap();
+        let out = dir.path().join("out");
+        let out = out.to_str().unwrap().to_string();
+        let v = if long { "9".repeat(5_000) } else { NASTY[value % NASTY.len()].to_string() };
+        let v_len = v.len();
+        let args: Vec<String> = match which {
+            0 => vec!["allocate".into(), HERON.into(), "--torque".into(), v],
+            1 => vec!["allocate".into(), HERON.into(), "--torque".into(), "0,0,0".into(), "--side-force".into(), v],
+            2 => vec!["allocate".into(), HERON.into(), "--torque".into(), "0,0,0".into(), "--state".into(), v],
+            3 => vec!["table".into(), HERON.into(), "--out".into(), out, "--grid".into(), v],
+            4 => vec!["table".into(), HERON.into(), "--out".into(), out, "--fraction".into(), v],
+            5 => vec!["table".into(), HERON.into(), "--out".into(), out, "--tolerance".into(), v],
+            6 => vec!["table".into(), HERON.into(), "--out".into(), out, "--format".into(), v],
+            7 => vec!["optimize".into(), HERON.into(), "--out".into(), out, "--max-evals".into(), "100".into(), "--time-limit".into(), v],
+            8 => vec!["optimize".into(), HERON.into(), "--out".into(), out, "--max-evals".into(), v],
+            9 => vec!["optimize".into(), HERON.into(), "--out".into(), out, "--max-evals".into(), "100".into(), "--then-within".into(), v],
+            10 => vec!["optimize".into(), HERON.into(), "--out".into(), out, "--max-evals".into(), "100".into(), "--objective".into(), v],
+            _ => vec!["optimize".into(), HERON.into(), "--out".into(), out, "--max-evals".into(), "100".into(), "--seed".into(), v],
+        };
+        let refs: Vec<&str> = args.iter().map(String::as_str).collect();
+        let (code, err) = code_and_error(&refs);
+        proptest::prop_assert!(matches!(code, Some(0..=2)), "{refs:?}: {code:?} {err}");
+        proptest::prop_assert!(!err.contains("panicked"), "{refs:?}: {err}");
+        // The parser may echo the value once; nothing grows faster than the input.
+        proptest::prop_assert!(err.len() < 2_000 + 2 * v_len, "{refs:?}: a message of {} bytes", err.len());
+        if code == Some(1) {
+            // An option value is never reported as a layout problem.
+            proptest::prop_assert!(!err.contains("the layout cannot be used"), "{refs:?}: {err}");
+        }
+    }
+}

@@ -414,7 +414,7 @@ fn report(
             "evaluations": evaluations,
             "stages": outcomes.iter().map(|o| serde_json::json!({
                 "evaluations": o.evaluations,
-                "stop": format!("{:?}", o.stop),
+                "stop": o.stop.describe(),
                 "elapsed_s": o.elapsed.as_secs_f64(),
                 "best": o.score.merit,
             })).collect::<Vec<_>>(),
@@ -427,7 +427,7 @@ fn report(
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
     let mut s = String::new();
-    let stops: Vec<String> = outcomes.iter().map(|o| format!("{:?}", o.stop)).collect();
+    let stops: Vec<&str> = outcomes.iter().map(|o| o.stop.describe()).collect();
     let _ = writeln!(
         s,
         "optimised {} for `{objective}`: worst margin {:.3} -> {:.3}",

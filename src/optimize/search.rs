@@ -212,6 +212,18 @@ pub enum StopReason {
     Stopped,
 }
 
+impl StopReason {
+    /// Plain words for reports.
+    pub fn describe(self) -> &'static str {
+        match self {
+            StopReason::Converged => "converged",
+            StopReason::EvaluationLimit => "evaluation budget spent",
+            StopReason::TimeLimit => "time limit reached",
+            StopReason::Stopped => "stopped on request",
+        }
+    }
+}
+
 /// The result of a search.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Outcome {

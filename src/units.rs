@@ -771,4 +771,49 @@ mod tests {
             proptest::prop_assert!((got - v * 1e-3).abs() <= 1e-12 * v.abs().max(1.0));
         }
     }
+
+    #[test]
+    fn message_helpers_never_show_nan_infinity_or_negative_zero() {
+        assert_eq!(shown_number(1.5), "1.5");
+        assert_eq!(shown_number(0.1 + 0.2), "0.3");
+        assert_eq!(shown_number(-0.0), "0");
+        assert_eq!(shown_number(1e300), "1.00000e300");
+        assert_eq!(shown_number(f64::NAN), "a value that is not a number");
+        assert_eq!(shown_number(f64::NEG_INFINITY), "an infinite value");
+        assert_eq!(signed(-0.0001, 2), "0.00");
+        assert_eq!(signed(-0.006, 2), "-0.01");
+        assert_eq!(signed(2.0, 1), "+2.0");
+        assert_eq!(shown("54 mm"), "54 mm");
+        let long = "x".repeat(1000);
+        assert!(shown(&long).ends_with("(1000 characters)"));
+        assert!(shown(&long).len() < 80);
+    }
+
+    #[test]
+    fn quantities_are_bounded_in_size_and_length() {
+        assert!(matches!(
+            parse("1e200 mm", Kind::Length),
+            Err(UnitError::OutOfRange {
+                largest: "100 km",
+                ..
+            })
+        ));
+        assert!(matches!(
+            parse("1e300 s", Kind::Time),
+            Err(UnitError::OutOfRange { .. })
+        ));
+        assert!(matches!(
+            parse_pressure("1e9 psig"),
+            Err(UnitError::OutOfRange { .. })
+        ));
+        assert_eq!(parse("86400 s", Kind::Time), Ok(86_400.0));
+        let long = format!("{} mm", "1".repeat(200));
+        assert_eq!(
+            parse(&long, Kind::Length),
+            Err(UnitError::TooLong {
+                expected: Kind::Length,
+                length: 203
+            })
+        );
+    }
 }

@@ -238,3 +238,35 @@ proptest::proptest! {
         }
     }
 }
+
+#[test]
+fn problems_the_analysis_finds_are_placed_at_their_field() {
+    // Every roll port cants one way, so the despin manoeuvre is impossible.
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("one-way.toml");
+    let text = std::fs::read_to_string(HERON)
+        .unwrap()
+        .replace(
+            "tangential_cant = \"-60 deg\"",
+            "tangential_cant = \"60 deg\"",
+        )
+        .replace(
+            "tangential_cant = [\"-60 deg\", \"-20 deg\"]",
+            "tangential_cant = [\"20 deg\", \"60 deg\"]",
+        );
+    std::fs::write(&path, &text).unwrap();
+    let (code, err) = code_and_error(&["analyze", path.to_str().unwrap()]);
+    assert_eq!(code, Some(1), "{err}");
+    let line = text[..text.find("name = \"despin").unwrap()]
+        .matches('\n')
+        .count();
+    let place = format!(
+        "{}:{line}:1: manoeuvre `despin before apogee`: ",
+        path.display()
+    );
+    assert!(err.contains(&place), "expected `{place}` in:\n{err}");
+    assert!(
+        !err.contains("analysis failed") && !err.contains("gas model"),
+        "{err}"
+    );
+}

@@ -149,7 +149,11 @@ pub fn parse_layout(text: &str, source_name: &str) -> Result<Layout, LayoutError
         &mut problems,
     );
     match design {
-        Ok(design) if problems.is_empty() => Ok(Layout { design, optimizer }),
+        Ok(mut design) if problems.is_empty() => {
+            // The drillable-cant rule of `[limits]` is also checked by the analysis.
+            design.max_cant_rad = optimizer.limits.max_total_cant_rad;
+            Ok(Layout { design, optimizer })
+        }
         _ => {
             problems.sort_by_key(|p| (p.line, p.column));
             Err(invalid(source_name, problems))

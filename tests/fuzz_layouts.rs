@@ -5,7 +5,8 @@
 //! entry points are those the binary calls; a handful of cases go through the
 //! real binary as well, checking the exit codes (0 or 1, never a crash).
 //!
-//! The case count is bounded so the whole file runs in a few seconds.
+//! The case count is bounded (400) so the whole file runs in seconds;
+//! `PORTWRIGHT_FUZZ_CASES=20000 cargo test --test fuzz_layouts` runs a longer sweep.
 
 use portwright::layout::{locate, parse_layout, LayoutError};
 use proptest::prelude::*;
@@ -247,7 +248,11 @@ fn the_demos_pass_the_checks_unchanged() {
 
 proptest! {
     #![proptest_config(ProptestConfig {
-        cases: 400,
+        // PORTWRIGHT_FUZZ_CASES=20000 runs a longer sweep by hand.
+        cases: std::env::var("PORTWRIGHT_FUZZ_CASES")
+            .ok()
+            .and_then(|v| v.parse().ok())
+            .unwrap_or(400),
         failure_persistence: None,
         ..ProptestConfig::default()
     })]

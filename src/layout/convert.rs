@@ -27,6 +27,16 @@ pub const MAX_BODY_LENGTH_M: f64 = 100.0;
 /// fractions of a degree; the bound keeps sin(angle) growing with the angle.
 pub const MAX_MISALIGNMENT_DEG: f64 = 10.0;
 
+/// Smallest hole, throat, exit or orifice diameter accepted, m (0.05 mm: finer
+/// than any twist drill; a smaller one gives flows too small to be numbers).
+pub const MIN_FLOW_DIAMETER_M: f64 = 0.05e-3;
+
+/// Range of flow coefficients accepted: far below the smallest solenoid valve
+/// and far above a large hand valve.
+pub const MIN_CV: f64 = 1e-4;
+/// See [`MIN_CV`].
+pub const MAX_CV: f64 = 100.0;
+
 struct Reader<'a> {
     text: &'a str,
     problems: Vec<Diagnostic>,
@@ -180,6 +190,39 @@ impl<'a> Reader<'a> {
                 x
             }
         }
+    }
+
+    /// A hole, throat, exit or orifice diameter: at least [`MIN_FLOW_DIAMETER_M`],
+    /// so that every flow, and every time computed from a flow, is a number.
+    fn flow_diameter(&mut self, q: &Q, field: &str) -> f64 {
+        let v = self.qty(q, field, Kind::Length);
+        if v.is_finite() && v < MIN_FLOW_DIAMETER_M {
+            self.problem(
+                q.span(),
+                field,
+                format!(
+                    "expected a diameter of at least 0.05 mm (finer than any drill), found \"{}\"",
+                    units::shown(q.get_ref())
+                ),
+            );
+        }
+        v
+    }
+
+    /// A flow coefficient Cv: at least [`MIN_CV`].
+    fn flow_coefficient(&mut self, v: &Spanned<f64>, field: &str) -> f64 {
+        let x = self.positive_number(v, field);
+        if x.is_finite() && x > 0.0 && !(MIN_CV..=MAX_CV).contains(&x) {
+            self.problem(
+                v.span(),
+                field,
+                format!(
+                    "expected a flow coefficient from {MIN_CV} to {MAX_CV}, found {}",
+                    units::shown_number(x)
+                ),
+            );
+        }
+        x
     }
 
     fn positive_number(&mut self, v: &Spanned<f64>, field: &str) -> f64 {
@@ -613,7 +656,7 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
     let supply = match (&g.supply_cv, &g.droop, &g.droop_at) {
         (None, None, None) => SupplyCapacity::Unlimited,
         (Some(cv), None, None) => SupplyCapacity::Cv {
-            cv: r.positive_number(cv, "feed.regulator.supply_cv"),
+            cv: r.flow_coefficient(cv, "feed.regulator.supply_cv"),
             xt: r.fraction(
                 g.supply_xt.as_ref(),
                 "feed.regulator.supply_xt",
@@ -657,11 +700,11 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
     let v = f.valve.get_ref();
     let flow = match (&v.cv, &v.orifice) {
         (Some(cv), None) => ValveFlow::Cv {
-            cv: r.positive_number(cv, "feed.valve.cv"),
+            cv: r.flow_coefficient(cv, "feed.valve.cv"),
             xt: r.fraction(v.xt.as_ref(), "feed.valve.xt", 0.7, 0.05, 1.0),
         },
         (None, Some(d)) => ValveFlow::Orifice {
-            diameter_m: r.positive(d, "feed.valve.orifice", Kind::Length),
+            diameter_m: r.flow_diameter(d, "feed.valve.orifice"),
             discharge_coefficient: r.fraction(
                 v.discharge_coefficient.as_ref(),
                 "feed.valve.discharge_coefficient",
@@ -730,12 +773,12 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
         );
         let nozzle = match (&p.hole, &p.throat, &p.exit) {
             (Some(h), None, None) => NozzleSpec::Hole {
-                diameter_m: r.positive(h, &format!("{field}.hole"), Kind::Length),
+                diameter_m: r.flow_diameter(h, &format!("{field}.hole")),
                 discharge_coefficient: cd,
             },
             (None, Some(t), Some(e)) => {
-                let throat = r.positive(t, &format!("{field}.throat"), Kind::Length);
-                let exit = r.positive(e, &format!("{field}.exit"), Kind::Length);
+                let throat = r.flow_diameter(t, &format!("{field}.throat"));
+                let exit = r.flow_diameter(e, &format!("{field}.exit"));
                 if throat.is_finite() && exit.is_finite() && exit < throat {
                     r.problem(
                         e.span(),

@@ -270,3 +270,27 @@ fn problems_the_analysis_finds_are_placed_at_their_field() {
         "{err}"
     );
 }
+
+#[test]
+fn a_staged_objective_from_the_command_line_checks_the_layouts_budget() {
+    // 100 evaluations suit one stage (81 needed) but not two (162).
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("small-budget.toml");
+    let text =
+        std::fs::read_to_string(HERON)
+            .unwrap()
+            .replacen("max_evals = 20000", "max_evals = 100", 1);
+    std::fs::write(&path, text).unwrap();
+    let out = dir.path().join("new.toml");
+    let (code, err) = code_and_error(&[
+        "optimize",
+        path.to_str().unwrap(),
+        "--out",
+        out.to_str().unwrap(),
+        "--objective",
+        "margin then gas",
+    ]);
+    assert_eq!(code, Some(2), "{err}");
+    assert!(err.contains("at least 162"), "{err}");
+    assert!(!out.exists());
+}

@@ -178,7 +178,17 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
             ))))
         }
         Some(n) => n,
-        None => plan.max_evaluations.unwrap_or(20_000).max(least),
+        // The layout's budget was checked for its own objective; an objective from
+        // the command line with more stages may need more.
+        None => match plan.max_evaluations {
+            Some(n) if n < least => {
+                return Err(anyhow::Error::new(super::values::UsageError(format!(
+                    "--objective: `{objective}` needs at least {least} evaluations (its population plus one, for each stage), but the layout's [optimize] max_evals is {n}; give --max-evals"
+                ))))
+            }
+            Some(n) => n,
+            None => 20_000usize.max(least),
+        },
     };
     let time_limit = opts.time_limit.or(plan.time_limit_s);
 

@@ -773,7 +773,7 @@ mod tests {
     }
 
     #[test]
-    fn message_helpers_never_show_nan_infinity_or_negative_zero() {
+    fn messages_never_show_nan_infinity_or_negative_zero() {
         assert_eq!(shown_number(1.5), "1.5");
         assert_eq!(shown_number(0.1 + 0.2), "0.3");
         assert_eq!(shown_number(-0.0), "0");

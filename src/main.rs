@@ -129,7 +129,11 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("wrote {}", target.display());
             Ok(())
         }
-        Command::Run { layout, out, paper } => {
+        Command::Run {
+            layout,
+            out,
+            template,
+        } => {
             if out.is_file() {
                 return Err(anyhow::Error::new(UsageError(format!(
                     "--out {}: is a file; run writes a folder of files",
@@ -140,7 +144,7 @@ fn run(cli: Cli) -> Result<()> {
             let (design, analysis) = load_and_analyze(&layout)?;
             eprintln!("building tables, meshes, template, plots and the report");
             let files =
-                portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper))
+                portwright::export::bundle::bundle(&design, &analysis, &template.settings())
                     .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
             print!("{}", portwright::report::render_text(&analysis));
             println!();
@@ -156,6 +160,25 @@ fn run(cli: Cli) -> Result<()> {
                     Written::Replaced => "replaced",
                 };
                 println!("{how} {} ({} bytes)", path.display(), f.bytes.len());
+            }
+            Ok(())
+        }
+        Command::Template {
+            layout,
+            out,
+            template,
+        } => {
+            let design = layout::load(&layout)?;
+            for (name, bytes) in cli::template::files(&design, &template)
+                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?
+            {
+                let path = out.join(&name);
+                check_distinct(&[("--out", &path)], &[&layout])?;
+                let how = match write_atomic(&path, &bytes, &[&layout], false)? {
+                    Written::Created => "wrote",
+                    Written::Replaced => "replaced",
+                };
+                println!("{how} {} ({} bytes)", path.display(), bytes.len());
             }
             Ok(())
         }
@@ -189,15 +212,4 @@ fn load_and_analyze(
     let analysis = portwright::analysis::analyze(&design)
         .map_err(|e| layout::locate::analysis_problem(&text, &name, &e))?;
     Ok((design, analysis))
-}
-
-fn template_settings(paper: cli::PaperSize) -> portwright::export::template::TemplateSettings {
-    use portwright::export::template::{Paper, TemplateSettings};
-    TemplateSettings {
-        paper: match paper {
-            cli::PaperSize::A4 => Paper::A4,
-            cli::PaperSize::Letter => Paper::Letter,
-        },
-        ..TemplateSettings::default()
-    }
 }

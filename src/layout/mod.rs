@@ -12,6 +12,7 @@ pub mod locate;
 pub mod optimizer;
 mod syntax;
 mod text_bounds;
+pub use crate::precision;
 pub mod write;
 
 pub use optimizer::{OptimizerSections, SearchPlan};

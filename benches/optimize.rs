@@ -171,7 +171,9 @@ fn real_merit(c: &mut Criterion) {
     g.sample_size(10);
     let stop = AtomicBool::new(false);
     let text = include_str!("../layouts/heron-54.toml");
-    let sections = portwright::optimize::sections_from_str(text).expect("sections");
+    let sections = portwright::layout::parse_layout(text, "heron-54.toml")
+        .expect("demo layout")
+        .optimizer;
     let settings = SearchSettings::default();
     g.bench_function("optimize Heron 54, 20000 evaluations, worst margin", |b| {
         b.iter(|| {

@@ -1,4 +1,6 @@
-//! U.S. Standard Atmosphere 1976 from sea level to 86 km geometric altitude.
+//! U.S. Standard Atmosphere 1976 from 500 m below sea level (the lowest dry land
+//! is about 430 m below) to 86 km geometric altitude; below sea level the
+//! standard's lowest layer continues, as its own tables do down to −5 km.
 //!
 //! The ambient pressure sets a nozzle's back pressure, so thrust and regime
 //! change along the flight; this module supplies it. Below 86 km the standard
@@ -22,8 +24,9 @@ use thiserror::Error;
 /// Why the atmosphere cannot give a state.
 #[derive(Debug, Clone, Copy, PartialEq, Error)]
 pub enum AtmosphereError {
-    /// The altitude is outside 0–86 km geometric (0–84.852 km geopotential) or not finite.
-    #[error("altitude {altitude_m} m is outside the modelled range 0 to {max_m} m")]
+    /// The altitude is outside −500 m to 86 km geometric (−500 m′ to 84.852 km
+    /// geopotential) or not finite.
+    #[error("altitude {altitude_m:.0} m is outside the modelled range -500 m to {max_m:.0} m")]
     OutOfRange {
         /// Altitude given, m.
         altitude_m: f64,
@@ -56,6 +59,9 @@ pub const SEA_LEVEL_TEMPERATURE_K: f64 = 288.15;
 /// Highest geometric altitude modelled, m.
 pub const MAX_GEOMETRIC_ALTITUDE_M: f64 = 86_000.0;
 
+/// Lowest altitude modelled, m (geometric and, near enough for the check, geopotential).
+pub const MIN_ALTITUDE_M: f64 = -500.0;
+
 const G0: f64 = 9.80665; // m/s², also the geopotential unit's reference
 const M0: f64 = 28.9644; // kg/kmol, sea-level mean molar mass
 const R_STAR: f64 = 8314.32; // J/(kmol K), the standard's gas constant
@@ -87,9 +93,11 @@ fn geopotential_from_geometric(z: f64) -> f64 {
     EARTH_RADIUS_M * z / (EARTH_RADIUS_M + z)
 }
 
-/// Atmosphere at geometric altitude `altitude_m` (0 to 86 000 m).
+/// Atmosphere at geometric altitude `altitude_m` (−500 m to 86 000 m).
 pub fn at_geometric_altitude(altitude_m: f64) -> Result<AtmosphereState, AtmosphereError> {
-    if !(altitude_m.is_finite() && (0.0..=MAX_GEOMETRIC_ALTITUDE_M).contains(&altitude_m)) {
+    if !(altitude_m.is_finite()
+        && (MIN_ALTITUDE_M..=MAX_GEOMETRIC_ALTITUDE_M).contains(&altitude_m))
+    {
         return Err(AtmosphereError::OutOfRange {
             altitude_m,
             max_m: MAX_GEOMETRIC_ALTITUDE_M,
@@ -104,7 +112,7 @@ pub fn at_geometric_altitude(altitude_m: f64) -> Result<AtmosphereState, Atmosph
 /// Atmosphere at geopotential altitude `altitude_m` (0 to 84 852 m'), the
 /// altitude the standard's layers are written in.
 pub fn at_geopotential_altitude(altitude_m: f64) -> Result<AtmosphereState, AtmosphereError> {
-    if !(altitude_m.is_finite() && (0.0..=TOP_GEOPOTENTIAL_M).contains(&altitude_m)) {
+    if !(altitude_m.is_finite() && (MIN_ALTITUDE_M..=TOP_GEOPOTENTIAL_M).contains(&altitude_m)) {
         return Err(AtmosphereError::OutOfRange {
             altitude_m,
             max_m: TOP_GEOPOTENTIAL_M,
@@ -314,9 +322,35 @@ mod tests {
             assert!(p < last);
             last = p;
         }
-        assert!(at_geometric_altitude(-1.0).is_err());
+        assert!(at_geometric_altitude(-501.0).is_err());
         assert!(at_geometric_altitude(86_001.0).is_err());
         assert!(at_geometric_altitude(f64::NAN).is_err());
         assert!(at_geopotential_altitude(85_000.0).is_err());
+    }
+
+    #[test]
+    fn below_sea_level_follows_the_lowest_layer() {
+        // fluids 1.3.1, fluids.atmosphere.ATMOSPHERE_1976 (geometric altitude):
+        // the same standard, computed independently. 1e-6 relative: both evaluate
+        // the same closed form, so only the constants' last digits differ.
+        for (z, t, p, rho) in [
+            (
+                -500.0,
+                291.40025565324044,
+                107478.00229517762,
+                1.2848944642950364,
+            ),
+            (
+                -250.0,
+                289.7750639107964,
+                104364.66720710343,
+                1.2546722227982345,
+            ),
+        ] {
+            let s = at_geometric_altitude(z).unwrap();
+            assert_relative_eq!(s.temperature_k, t, max_relative = 1e-6);
+            assert_relative_eq!(s.pressure_pa, p, max_relative = 1e-6);
+            assert_relative_eq!(s.density_kg_m3, rho, max_relative = 1e-6);
+        }
     }
 }

@@ -11,5 +11,6 @@ pub mod layout;
 pub mod mass;
 pub mod model;
 pub mod optimize;
+pub mod precision;
 pub mod report;
 pub mod units;

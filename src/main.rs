@@ -4,7 +4,9 @@ mod cli;
 
 use anyhow::{Context, Result};
 use clap::Parser;
-use cli::{output::write_atomic, Cli, Command};
+use cli::output::{check_distinct, write_atomic, Written};
+use cli::values::UsageError;
+use cli::{Cli, Command};
 use portwright::layout::{self, LayoutError};
 use std::process::ExitCode;
 use std::sync::atomic::{AtomicBool, Ordering};
@@ -15,6 +17,11 @@ fn main() -> ExitCode {
     match run(cli) {
         Ok(()) => ExitCode::SUCCESS,
         Err(e) => {
+            if let Some(u) = e.downcast_ref::<UsageError>() {
+                // Bad command-line use, like clap's own errors.
+                eprintln!("error: {u}\n\nFor more information, try '--help'.");
+                return ExitCode::from(2);
+            }
             if let Some(le) = e.downcast_ref::<LayoutError>() {
                 eprintln!("error: the layout cannot be used:\n{le}");
             } else {
@@ -34,17 +41,15 @@ fn run(cli: Cli) -> Result<()> {
             side_force,
             json,
         } => {
-            let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let (design, analysis) = load_and_analyze(&layout)?;
             print!(
                 "{}",
                 cli::allocate::run(
                     &design,
                     &analysis,
-                    &torque,
+                    torque,
                     state.as_deref(),
-                    side_force.as_deref(),
+                    side_force,
                     json
                 )?
             );
@@ -59,9 +64,8 @@ fn run(cli: Cli) -> Result<()> {
             fraction,
             tolerance,
         } => {
-            let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            check_distinct(&[("--out", &out)], &[&layout])?;
+            let (design, analysis) = load_and_analyze(&layout)?;
             let text = cli::table::render(
                 &design,
                 &analysis,
@@ -88,8 +92,21 @@ fn run(cli: Cli) -> Result<()> {
             plot,
             json,
         } => {
-            let text = std::fs::read_to_string(&layout)
-                .with_context(|| format!("{}: cannot read the layout", layout.display()))?;
+            let target = if in_place {
+                layout.clone()
+            } else {
+                out.clone().context("--out is required")?
+            };
+            // Refused before the search runs, so nothing is written.
+            let mut outputs: Vec<(&str, &std::path::Path)> = Vec::new();
+            if !in_place {
+                outputs.push(("--out", &target));
+            }
+            if let Some(p) = &plot {
+                outputs.push(("--plot", p));
+            }
+            check_distinct(&outputs, &[&layout])?;
+            let text = layout::read_text(&layout)?;
             let stop = Arc::new(AtomicBool::new(false));
             let flag = stop.clone();
             // Ctrl-C asks the search to stop; the best layout so far is still written.
@@ -104,11 +121,6 @@ fn run(cli: Cli) -> Result<()> {
                 json,
             };
             let result = cli::optimize::run(&text, &layout.display().to_string(), &options, &stop)?;
-            let target = if in_place {
-                layout.clone()
-            } else {
-                out.clone().context("--out is required")?
-            };
             write_atomic(&target, result.layout_text.as_bytes(), &[&layout], in_place)?;
             if let (Some(p), Some(svg)) = (plot, result.plot_svg) {
                 write_atomic(&p, svg.as_bytes(), &[&layout], false)?;
@@ -122,20 +134,31 @@ fn run(cli: Cli) -> Result<()> {
             out,
             template,
         } => {
+            if out.is_file() {
+                return Err(anyhow::Error::new(UsageError(format!(
+                    "--out {}: is a file; run writes a folder of files",
+                    out.display()
+                ))));
+            }
             eprintln!("reading {}", layout.display());
-            let design = layout::load(&layout)?;
-            eprintln!("analysing: mass properties, gas, port flows, envelopes");
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let (design, analysis) = load_and_analyze(&layout)?;
             eprintln!("building tables, meshes, template, plots and the report");
             let bundle =
                 portwright::export::bundle::bundle(&design, &analysis, &template.settings());
             print!("{}", portwright::report::render_text(&analysis));
             println!();
-            for f in &bundle.files {
-                let path = out.join(&f.name);
-                write_atomic(&path, &f.bytes, &[&layout], false)?;
-                println!("wrote {} ({} bytes)", path.display(), f.bytes.len());
+            // Only the files of the bundle are written; nothing else in the
+            // folder is touched.
+            let paths: Vec<_> = bundle.files.iter().map(|f| out.join(&f.name)).collect();
+            let outputs: Vec<(&str, &std::path::Path)> =
+                paths.iter().map(|p| ("--out", p.as_path())).collect();
+            check_distinct(&outputs, &[&layout])?;
+            for (f, path) in bundle.files.iter().zip(&paths) {
+                let how = match write_atomic(path, &f.bytes, &[&layout], false)? {
+                    Written::Created => "wrote",
+                    Written::Replaced => "replaced",
+                };
+                println!("{how} {} ({} bytes)", path.display(), f.bytes.len());
             }
             for n in &bundle.not_written {
                 println!("{}", n.line());
@@ -152,15 +175,20 @@ fn run(cli: Cli) -> Result<()> {
                 .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?
             {
                 let path = out.join(&name);
-                write_atomic(&path, &bytes, &[&layout], false)?;
-                println!("wrote {} ({} bytes)", path.display(), bytes.len());
+                check_distinct(&[("--out", &path)], &[&layout])?;
+                let how = match write_atomic(&path, &bytes, &[&layout], false)? {
+                    Written::Created => "wrote",
+                    Written::Replaced => "replaced",
+                };
+                println!("{how} {} ({} bytes)", path.display(), bytes.len());
             }
             Ok(())
         }
         Command::Analyze { layout, json, out } => {
-            let design = layout::load(&layout)?;
-            let analysis = portwright::analysis::analyze(&design)
-                .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            if let Some(o) = &out {
+                check_distinct(&[("--out", o)], &[&layout])?;
+            }
+            let (_, analysis) = load_and_analyze(&layout)?;
             let text = if json {
                 serde_json::to_string_pretty(&analysis)? + "\n"
             } else {
@@ -173,4 +201,17 @@ fn run(cli: Cli) -> Result<()> {
             Ok(())
         }
     }
+}
+
+/// Read, check and analyse a layout; a problem the analysis finds is placed at
+/// the layout field behind it.
+fn load_and_analyze(
+    path: &std::path::Path,
+) -> Result<(portwright::model::Design, portwright::analysis::Analysis)> {
+    let text = layout::read_text(path)?;
+    let name = path.display().to_string();
+    let design = layout::parse_str(&text, &name)?;
+    let analysis = portwright::analysis::analyze(&design)
+        .map_err(|e| layout::locate::analysis_problem(&text, &name, &e))?;
+    Ok((design, analysis))
 }

@@ -238,9 +238,9 @@ pub fn render_text(a: &Analysis) -> String {
     for st in &a.states {
         let _ = writeln!(
             s,
-            "State `{}`: {:.0} m, ambient {:.1} kPa abs, manifold {} with one valve open, motor {}",
+            "State `{}`: {} m, ambient {:.1} kPa abs, manifold {} with one valve open, motor {}",
             st.name,
-            st.altitude_m,
+            fixed(st.altitude_m, 0).unwrap_or_else(|| "unknown".to_string()),
             st.ambient_pressure_pa / 1e3,
             bar_psi(st.regulated_pressure_pa),
             motor_words(st.motor)

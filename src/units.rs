@@ -79,6 +79,82 @@ impl Kind {
     }
 }
 
+impl Kind {
+    /// The largest magnitude accepted for this kind, SI, and the same in words.
+    ///
+    /// Far beyond any cold-gas system on a small vehicle, yet small enough that
+    /// products and squares of accepted values (inertias, torques, flows) stay
+    /// finite in `f64`. A value beyond it is a typo, not a design.
+    pub fn largest(self) -> (f64, &'static str) {
+        match self {
+            Kind::Length => (100e3, "100 km"),
+            Kind::Area => (10.0, "10 m2"),
+            Kind::Volume => (1.0, "1 m3"),
+            Kind::Pressure => (100e6, "100 MPa"),
+            Kind::Mass => (10_000.0, "10000 kg"),
+            Kind::Force => (1e6, "1000 kN"),
+            Kind::Torque => (1e5, "100000 N m"),
+            Kind::Temperature => (1_000.0, "1000 K"),
+            Kind::Angle => (4.0 * std::f64::consts::PI, "720 deg"),
+            Kind::Time => (86_400.0, "86400 s (one day)"),
+            Kind::AngularRate => (1_000.0, "1000 rad/s"),
+            Kind::AngularAcceleration => (1e5, "100000 rad/s^2"),
+            Kind::MassFlow => (100.0, "100 kg/s"),
+            Kind::Current => (1_000.0, "1000 A"),
+            Kind::Inertia => (1e5, "100000 kg m2"),
+        }
+    }
+}
+
+/// The longest quantity text read, in bytes. A quantity is a number and a unit;
+/// anything longer is a mistake, and the bound keeps reading it cheap.
+pub const MAX_QUANTITY_LEN: usize = 64;
+
+/// `text` as shown in a message: whole when short, else its first 40
+/// characters and the length, so a huge value cannot flood the terminal.
+pub fn shown(text: &str) -> String {
+    let n = text.chars().count();
+    if n <= 60 {
+        text.to_string()
+    } else {
+        let head: String = text.chars().take(40).collect();
+        format!("{head}… ({n} characters)")
+    }
+}
+
+/// A plain number as shown in a message: six significant digits at most, and
+/// words instead of NaN or infinity.
+pub fn shown_number(x: f64) -> String {
+    if x.is_nan() {
+        "a value that is not a number".to_string()
+    } else if x.is_infinite() {
+        "an infinite value".to_string()
+    } else if x == 0.0 {
+        "0".to_string()
+    } else if (1e-4..1e9).contains(&x.abs()) {
+        let digits = (5 - x.abs().log10().floor() as i32).clamp(0, 9) as usize;
+        let t = format!("{x:.digits$}");
+        if t.contains('.') {
+            t.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            t
+        }
+    } else {
+        format!("{x:.5e}")
+    }
+}
+
+/// `v` with its sign and `decimals` decimals, for columns of signed values; a
+/// value that rounds to zero is written "0.00" (no sign), never "-0.00".
+pub fn signed(v: f64, decimals: usize) -> String {
+    let t = format!("{v:+.decimals$}");
+    if t[1..].chars().all(|c| c == '0' || c == '.') {
+        format!("{:.decimals$}", 0.0)
+    } else {
+        t
+    }
+}
+
 impl fmt::Display for Kind {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         let (name, example) = self.describe();
@@ -165,6 +241,24 @@ pub enum UnitError {
         text: String,
         /// The unit found.
         unit: String,
+    },
+    /// Longer than any quantity.
+    #[error("expected {expected}, found a text of {length} characters (a quantity is a number and a unit)")]
+    TooLong {
+        /// What was expected.
+        expected: Kind,
+        /// Its length in characters.
+        length: usize,
+    },
+    /// Beyond [`Kind::largest`].
+    #[error("expected {expected} of at most {largest} in size, found \"{text}\"")]
+    OutOfRange {
+        /// What was expected.
+        expected: Kind,
+        /// The text given.
+        text: String,
+        /// The bound, in words.
+        largest: &'static str,
     },
     /// NaN or infinite.
     #[error("expected {expected}, found \"{text}\" (not a finite number)")]
@@ -447,6 +541,12 @@ fn lookup(unit: &str) -> Option<&'static UnitRow> {
 }
 
 fn parse_row(text: &str, expected: Kind) -> Result<(f64, &'static UnitRow), UnitError> {
+    if text.len() > MAX_QUANTITY_LEN {
+        return Err(UnitError::TooLong {
+            expected,
+            length: text.chars().count(),
+        });
+    }
     let (value, unit, _) = split_number(text).ok_or_else(|| UnitError::NoNumber {
         expected,
         text: text.to_string(),
@@ -482,14 +582,27 @@ fn parse_row(text: &str, expected: Kind) -> Result<(f64, &'static UnitRow), Unit
 /// Parse a quantity of the given kind into SI. For pressures use [`parse_pressure`].
 pub fn parse(text: &str, expected: Kind) -> Result<f64, UnitError> {
     let (value, row) = parse_row(text, expected)?;
-    Ok(value * row.scale + row.offset)
+    within_range(value * row.scale + row.offset, text, expected)
+}
+
+fn within_range(v: f64, text: &str, expected: Kind) -> Result<f64, UnitError> {
+    let (largest, words) = expected.largest();
+    if v.is_finite() && v.abs() <= largest {
+        Ok(v)
+    } else {
+        Err(UnitError::OutOfRange {
+            expected,
+            text: text.to_string(),
+            largest: words,
+        })
+    }
 }
 
 /// Parse a pressure, keeping whether it was gauge or absolute.
 pub fn parse_pressure(text: &str) -> Result<PressureValue, UnitError> {
     let (value, row) = parse_row(text, Kind::Pressure)?;
     Ok(PressureValue {
-        pa: value * row.scale,
+        pa: within_range(value * row.scale, text, Kind::Pressure)?,
         reference: row.reference.unwrap_or(PressureReference::Absolute),
     })
 }
@@ -657,5 +770,50 @@ mod tests {
             let got = parse(&text, Kind::Length).unwrap();
             proptest::prop_assert!((got - v * 1e-3).abs() <= 1e-12 * v.abs().max(1.0));
         }
+    }
+
+    #[test]
+    fn messages_never_show_nan_infinity_or_negative_zero() {
+        assert_eq!(shown_number(1.5), "1.5");
+        assert_eq!(shown_number(0.1 + 0.2), "0.3");
+        assert_eq!(shown_number(-0.0), "0");
+        assert_eq!(shown_number(1e300), "1.00000e300");
+        assert_eq!(shown_number(f64::NAN), "a value that is not a number");
+        assert_eq!(shown_number(f64::NEG_INFINITY), "an infinite value");
+        assert_eq!(signed(-0.0001, 2), "0.00");
+        assert_eq!(signed(-0.006, 2), "-0.01");
+        assert_eq!(signed(2.0, 1), "+2.0");
+        assert_eq!(shown("54 mm"), "54 mm");
+        let long = "x".repeat(1000);
+        assert!(shown(&long).ends_with("(1000 characters)"));
+        assert!(shown(&long).len() < 80);
+    }
+
+    #[test]
+    fn quantities_are_bounded_in_size_and_length() {
+        assert!(matches!(
+            parse("1e200 mm", Kind::Length),
+            Err(UnitError::OutOfRange {
+                largest: "100 km",
+                ..
+            })
+        ));
+        assert!(matches!(
+            parse("1e300 s", Kind::Time),
+            Err(UnitError::OutOfRange { .. })
+        ));
+        assert!(matches!(
+            parse_pressure("1e9 psig"),
+            Err(UnitError::OutOfRange { .. })
+        ));
+        assert_eq!(parse("86400 s", Kind::Time), Ok(86_400.0));
+        let long = format!("{} mm", "1".repeat(200));
+        assert_eq!(
+            parse(&long, Kind::Length),
+            Err(UnitError::TooLong {
+                expected: Kind::Length,
+                length: 203
+            })
+        );
     }
 }

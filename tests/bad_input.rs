@@ -325,9 +325,9 @@ fn optimiser_sections_are_checked_by_every_reader() {
     for (extra, needle) in [
         (
             "[[freedom]]\nports = [\"a\"]\nstation = [\"1 deg\", \"2 m\"]\n",
-            "freedom[0].station",
+            "freedom 1.station",
         ),
-        ("[[freedom]]\nports = \"a\"\n", "freedom[0].ports"),
+        ("[[freedom]]\nports = \"a\"\n", "freedom 1.ports"),
         ("[limits]\nside_force = \"2 kg\"\n", "limits.side_force"),
         ("[limits]\nmargn = \"2 mm\"\n", "margn"),
         ("[optimize]\nseed = \"seven\"\n", "optimize.seed"),

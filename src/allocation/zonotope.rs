@@ -33,6 +33,9 @@ pub enum ZonotopeError {
     /// More distinct generator directions than the vertex labelling supports.
     #[error("{0} distinct generator directions; at most 128 are supported")]
     TooManyGenerators(usize),
+    /// A column holds a value that is not a finite number (from out-of-range data).
+    #[error("the torque of port column {0} is not a finite number; check the layout's lengths and thrusts")]
+    NotFinite(usize),
 }
 
 /// One facet of a full-dimensional zonotope: {x : normal·x = offset} ∩ Z.
@@ -100,6 +103,10 @@ impl Zonotope {
     /// A zonotope from arbitrary 3-vectors (columns of `columns`).
     pub fn new(columns: Matrix3xX<f64>, tol: &Tolerances) -> Result<Self, ZonotopeError> {
         let n = columns.ncols();
+        // Non-finite generators would break every facet search below; refuse them.
+        if let Some(i) = (0..n).find(|&i| columns.column(i).iter().any(|v| !v.is_finite())) {
+            return Err(ZonotopeError::NotFinite(i + 1));
+        }
         let scale = (0..n).map(|i| columns.column(i).norm()).fold(0.0, f64::max);
         let mut center = Vector3::zeros();
         let mut half: Vec<Vector3<f64>> = Vec::new();
@@ -705,5 +712,21 @@ mod tests {
         assert_relative_eq!(z.max_along(&u), 2.0 * b.norm(), max_relative = 1e-12);
         assert_relative_eq!(z.max_along(&-u), b.norm(), max_relative = 1e-12);
         assert_eq!(z.max_along(&Vector3::x()), 0.0);
+    }
+
+    #[test]
+    fn non_finite_columns_are_refused_not_indexed() {
+        // A column of 1e200 N·m squared overflows; NaN and infinity must be refused.
+        let tol = Tolerances::default();
+        for bad in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY] {
+            let cols = Matrix3xX::from_columns(&[
+                Vector3::new(0.1, 0.0, 0.0),
+                Vector3::new(0.0, bad, 0.0),
+            ]);
+            assert_eq!(
+                Zonotope::new(cols, &tol).err(),
+                Some(ZonotopeError::NotFinite(2))
+            );
+        }
     }
 }

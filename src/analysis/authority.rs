@@ -41,9 +41,18 @@ pub struct AxisAuthority {
     pub angular_accel_rad_s2: f64,
     /// Required torque, N·m.
     pub required_n_m: f64,
-    /// Weaker sense over requirement (infinite when nothing is required).
+    /// Weaker sense over requirement. When nothing is required about the axis
+    /// the margin is unbounded: it is kept as infinity here, written as `null`
+    /// in JSON with [`AxisAuthority::margin_note`] saying why.
     pub margin: f64,
+    /// [`NO_REQUIREMENT`] when nothing is required about the axis (the margin is
+    /// then unbounded), else `None`.
+    pub margin_note: Option<&'static str>,
 }
+
+/// What a margin of `null` means in every command's JSON and "none required"
+/// in text: nothing is required about the axis, so any authority suffices.
+pub const NO_REQUIREMENT: &str = "no requirement";
 
 /// Build per-axis authority from the available torques (weaker sense counts) and
 /// the angular acceleration attainable about each axis alone (weaker sense, rad/s²;
@@ -68,6 +77,7 @@ pub fn axis_authority(
             } else {
                 f64::INFINITY
             },
+            margin_note: (total[k] <= 0.0).then_some(NO_REQUIREMENT),
         }
     })
 }
@@ -91,6 +101,12 @@ mod tests {
         assert_eq!(a[0].margin, 0.6 / 0.2);
         assert_eq!(a[1].margin, 0.4 / 0.2);
         assert!(a[2].margin.is_infinite());
+        assert_eq!(a[2].margin_note, Some(NO_REQUIREMENT));
+        assert_eq!(a[0].margin_note, None);
+        // JSON: a number, or null with the note beside it.
+        let v = serde_json::to_value(a[2]).unwrap();
+        assert!(v["margin"].is_null());
+        assert_eq!(v["margin_note"], "no requirement");
         assert_eq!(a[0].angular_accel_rad_s2, 60.0);
     }
 }

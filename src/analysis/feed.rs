@@ -242,8 +242,13 @@ pub fn ports_at(design: &Design, state: &str, ambient_pa: f64) -> Result<PortsAt
         state: state.to_string(),
         reason: e.to_string(),
     };
-    let chains = port_chains(design).map_err(|e| flow_err("(all)", e))?;
-    let supply = shared_supply(design, ambient_pa).map_err(|e| flow_err("(supply)", e))?;
+    let chains = port_chains(design).map_err(|e| AnalysisError::Chain {
+        reason: e.to_string(),
+    })?;
+    let supply = shared_supply(design, ambient_pa).map_err(|e| AnalysisError::Supply {
+        state: state.to_string(),
+        reason: e.to_string(),
+    })?;
     let mut ports = Vec::with_capacity(chains.len());
     let mut regulated = supply.set_pressure_pa();
     for (p, chain) in design.ports.iter().zip(&chains) {
@@ -379,7 +384,11 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         warnings.push("in an adiabatic blowdown the CO2 cools to its triple point (216.6 K): dry ice forms in the tank and the usable gas falls".to_string());
     }
 
-    let at = ports_at(design, "first state", ambient)?;
+    let first = design
+        .states
+        .first()
+        .map_or("sea level", |s| s.name.as_str());
+    let at = ports_at(design, first, ambient)?;
     let v = &feed.valve;
     let per_port = at
         .ports

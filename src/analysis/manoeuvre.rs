@@ -72,7 +72,7 @@ fn gas_per_impulse(design: &Design, st: &StateReport, dir: &Vector3<f64>) -> Res
     };
     if reach <= 0.0 {
         return Err(format!(
-            "no torque along {}{} at {}",
+            "no port can make torque along {}{} at state `{}`, so no amount of gas performs it; remove the manoeuvre or add ports that can",
             if dir[k] > 0.0 { "+" } else { "-" },
             super::authority::AXES[k],
             st.name
@@ -88,21 +88,27 @@ pub fn plan(
     design: &Design,
     gas: &GasBudget,
     states: &[StateReport],
-) -> Result<Option<ManoeuvrePlan>, String> {
+) -> Result<Option<ManoeuvrePlan>, super::AnalysisError> {
     if design.manoeuvres.is_empty() {
         return Ok(None);
     }
     let mut items = Vec::new();
     for m in &design.manoeuvres {
-        let st = state_for(states, &m.state)
-            .ok_or_else(|| format!("manoeuvre `{}`: no flight state {:?}", m.name, m.state))?;
+        let fail = |reason: String| super::AnalysisError::Manoeuvre {
+            name: m.name.clone(),
+            reason,
+        };
+        let st = state_for(states, &m.state).ok_or_else(|| {
+            fail(format!(
+                "no flight state `{}`",
+                m.state.as_deref().unwrap_or("(none)")
+            ))
+        })?;
         let inertia = st.mass.inertia_diagonal();
         let (axis, sign, impulse) = impulse(m, st, inertia);
         let mut dir = Vector3::zeros();
         dir[axis] = sign;
-        let price = |d: &Vector3<f64>| {
-            gas_per_impulse(design, st, d).map_err(|e| format!("manoeuvre `{}`: {e}", m.name))
-        };
+        let price = |d: &Vector3<f64>| gas_per_impulse(design, st, d).map_err(fail);
         // A turn accelerates one way and brakes the other: half its impulse in each sense.
         let gas = if matches!(m.kind, ManoeuvreKind::Turn { .. }) {
             0.5 * impulse * (price(&dir)? + price(&(-dir))?)

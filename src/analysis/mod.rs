@@ -59,6 +59,44 @@ pub enum AnalysisError {
         /// What went wrong.
         reason: String,
     },
+    /// The regulator and its line cannot supply the manifold.
+    #[error("the regulator and its line at state `{state}`: {reason}")]
+    Supply {
+        /// Flight state.
+        state: String,
+        /// What went wrong.
+        reason: String,
+    },
+    /// The valve or a port's nozzle cannot be modelled.
+    #[error("the valve or a port's nozzle: {reason}")]
+    Chain {
+        /// What went wrong.
+        reason: String,
+    },
+    /// A manoeuvre cannot be priced: no port can make the torque it needs.
+    #[error("manoeuvre `{name}`: {reason}")]
+    Manoeuvre {
+        /// Manoeuvre name.
+        name: String,
+        /// What went wrong.
+        reason: String,
+    },
+}
+
+impl AnalysisError {
+    /// The layout field behind the problem, in the dotted form the layout
+    /// reader uses (``state `burnout`.altitude``), for the caller to locate.
+    pub fn field(&self) -> String {
+        match self {
+            AnalysisError::Gas(_) => "feed.tank".to_string(),
+            AnalysisError::Flow { port, .. } => format!("port `{port}`"),
+            AnalysisError::Allocation { .. } => "port".to_string(),
+            AnalysisError::Atmosphere { state, .. } => format!("state `{state}`.altitude"),
+            AnalysisError::Supply { .. } => "feed.regulator".to_string(),
+            AnalysisError::Chain { .. } => "feed.valve".to_string(),
+            AnalysisError::Manoeuvre { name, .. } => format!("manoeuvre `{name}`"),
+        }
+    }
 }
 
 /// The usual cautions for high-pressure gas work, shown in every report.
@@ -374,7 +412,7 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
     assumptions.extend(feed::assumptions(design, &budget));
     assumptions.extend(MODEL_NOTES.iter().map(|n| n.to_string()));
     let mut findings = findings::findings(design, &budget, &states);
-    let manoeuvres = manoeuvre::plan(design, &budget, &states).map_err(AnalysisError::Gas)?;
+    let manoeuvres = manoeuvre::plan(design, &budget, &states)?;
     if let Some(p) = &manoeuvres {
         findings.push(if p.fits {
             format!(

@@ -1,30 +1,11 @@
 //! `portwright allocate`: least-gas duty cycles for one torque command.
 
-use anyhow::{anyhow, bail, Context, Result};
+use anyhow::{anyhow, Context, Result};
 use nalgebra::Vector3;
 use portwright::allocation::mingas::{AllocationStatus, MinGasAllocator, SideForceLimit};
 use portwright::allocation::Tolerances;
 use portwright::analysis::{self, Analysis};
 use portwright::model::Design;
-use portwright::units::{self, Kind};
-
-/// Parse "ROLL,PITCH,YAW", each a torque with a unit (a bare 0 is accepted).
-pub fn parse_torque(text: &str) -> Result<Vector3<f64>> {
-    let parts: Vec<&str> = text.split(',').map(str::trim).collect();
-    if parts.len() != 3 {
-        bail!("--torque: expected three torques ROLL,PITCH,YAW such as \"20 mN m,0,-5 mN m\", found \"{text}\"");
-    }
-    let mut v = Vector3::zeros();
-    for (k, p) in parts.iter().enumerate() {
-        v[k] = if p.parse::<f64>() == Ok(0.0) {
-            0.0
-        } else {
-            units::parse(p, Kind::Torque)
-                .map_err(|e| anyhow!("--torque: {}: {e}", ["roll", "pitch", "yaw"][k]))?
-        };
-    }
-    Ok(v)
-}
 
 /// Pick a state report by name (or the first).
 pub fn pick_state<'a>(
@@ -42,41 +23,27 @@ pub fn pick_state<'a>(
                 .iter()
                 .map(|s| format!("`{}`", s.name))
                 .collect();
-            anyhow!(
-                "--state: no flight state `{n}`; the layout has {}",
+            anyhow::Error::new(super::values::UsageError(format!(
+                "--state: no flight state `{}`; the layout has {}",
+                portwright::units::shown(n),
                 names.join(", ")
-            )
+            )))
         }),
     }
-}
-
-/// Parse the side-force option.
-pub fn side_force(text: Option<&str>) -> Result<SideForceLimit> {
-    Ok(match text {
-        None => SideForceLimit::Free,
-        Some(t) => {
-            let v = units::parse(t, Kind::Force).map_err(|e| anyhow!("--side-force: {e}"))?;
-            if v < 0.0 {
-                bail!("--side-force: expected zero or more");
-            }
-            SideForceLimit::from_newtons(Some(v))
-        }
-    })
 }
 
 /// Run the command and return what to print.
 pub fn run(
     design: &Design,
     analysis: &Analysis,
-    torque: &str,
+    tau: Vector3<f64>,
     state: Option<&str>,
-    side: Option<&str>,
+    side: Option<SideForceLimit>,
     json: bool,
 ) -> Result<String> {
-    let tau = parse_torque(torque)?;
     let st = pick_state(analysis, state)?;
     let e = analysis::effectiveness(design, &st.mass, &st.ports).map_err(|e| anyhow!(e))?;
-    let rule = side_force(side)?;
+    let rule = side.unwrap_or(SideForceLimit::Free);
     let tol = Tolerances::default();
     let mut alloc = MinGasAllocator::new(&e, rule, &tol).map_err(|e| anyhow!("{e}"))?;
     let a = alloc.allocate(&tau).context("allocation failed")?;

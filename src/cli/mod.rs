@@ -5,13 +5,31 @@ pub mod optimize;
 pub mod output;
 pub mod table;
 pub mod template;
+pub mod values;
 
 use clap::{Parser, Subcommand};
+use nalgebra::Vector3;
+use portwright::allocation::SideForceLimit;
+use portwright::analysis::score::Objective;
 use std::path::PathBuf;
+
+/// Shown after every command's help: what the exit codes mean and what is refused.
+const AFTER_HELP: &str = "\
+Exit codes:
+  0  success
+  1  a problem in the layout (the message names file, line, column and field),
+     or a file that cannot be read or written
+  2  bad command-line use: an unknown option, or an option value that is wrong
+     (such as --torque \"7,0,0\", --state with no such flight state, --grid 66)
+
+Limits: a layout file holds at most 16 MiB of UTF-8 text; text values (names,
+labels) at most 200 characters; a quantity at most 64 characters, within a
+physical range per kind (lengths within 100 m, times within a day, ...; the
+README lists them); --time-limit and [optimize] time_limit at most 24 h.";
 
 /// Design and check cold-gas reaction-control port layouts.
 #[derive(Debug, Parser)]
-#[command(name = "portwright", version, about)]
+#[command(name = "portwright", version, about, after_help = AFTER_HELP)]
 pub struct Cli {
     /// What to do.
     #[command(subcommand)]
@@ -22,6 +40,7 @@ pub struct Cli {
 #[derive(Debug, Subcommand)]
 pub enum Command {
     /// The whole job: analysis, firmware tables, STL, drilling template, plots and an HTML report.
+    #[command(after_help = AFTER_HELP)]
     Run {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -33,6 +52,7 @@ pub enum Command {
         template: template::TemplateArgs,
     },
     /// The 1:1 drilling template alone, as SVG pages and one PDF.
+    #[command(after_help = AFTER_HELP)]
     Template {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -44,6 +64,7 @@ pub enum Command {
         template: template::TemplateArgs,
     },
     /// Mass properties, gas budget, per-port thrust, torques, authority and findings.
+    #[command(after_help = AFTER_HELP)]
     Analyze {
         /// Layout file (TOML).
         layout: PathBuf,
@@ -55,28 +76,30 @@ pub enum Command {
         out: Option<PathBuf>,
     },
     /// Least-gas duty cycles for a commanded torque.
+    #[command(after_help = AFTER_HELP)]
     Allocate {
         /// Layout file (TOML).
         layout: PathBuf,
         /// Torque about roll, pitch and yaw, each with a unit, e.g. "20 mN m,0,-5 mN m".
-        #[arg(long, allow_hyphen_values = true)]
-        torque: String,
+        #[arg(long, allow_hyphen_values = true, value_parser = values::torque)]
+        torque: Vector3<f64>,
         /// Flight state (default: the first in the file).
         #[arg(long)]
         state: Option<String>,
         /// Largest side force allowed, e.g. "0.2 N"; "0 N" asks for pure couples.
-        #[arg(long)]
-        side_force: Option<String>,
+        #[arg(long, allow_hyphen_values = true, value_parser = values::side_force)]
+        side_force: Option<SideForceLimit>,
         /// Print JSON instead of a table.
         #[arg(long)]
         json: bool,
     },
     /// Firmware allocation tables: on/off valve sets, the exact duty-cycle map, optional grid.
+    #[command(after_help = AFTER_HELP)]
     Table {
         /// Layout file (TOML).
         layout: PathBuf,
         /// Output format.
-        #[arg(long, value_enum, default_value = "c")]
+        #[arg(long, value_enum, ignore_case = true, default_value = "c")]
         format: TableFormat,
         /// Output file.
         #[arg(long)]
@@ -85,18 +108,19 @@ pub enum Command {
         #[arg(long)]
         state: Option<String>,
         /// Also tabulate a regular grid with this many points per axis (2–65).
-        #[arg(long)]
+        #[arg(long, value_parser = values::grid)]
         grid: Option<usize>,
         /// On/off sets must reach this fraction (0 to 1) of the best on/off torque on
         /// each commanded axis and sense.
-        #[arg(long, default_value_t = 0.5, value_parser = fraction_value, allow_hyphen_values = true)]
+        #[arg(long, default_value = "0.5", allow_hyphen_values = true, value_parser = values::fraction)]
         fraction: f64,
         /// Torque allowed on uncommanded axes, as a fraction (0 or more) of that
         /// axis's best on/off torque.
-        #[arg(long, default_value_t = 0.1, value_parser = tolerance_value, allow_hyphen_values = true)]
+        #[arg(long, default_value = "0.1", allow_hyphen_values = true, value_parser = values::tolerance)]
         tolerance: f64,
     },
     /// Search port stations, clocks, cants and hole sizes for the best worst-case margin.
+    #[command(after_help = AFTER_HELP)]
     Optimize {
         /// Layout file (TOML) with [[freedom]] sections saying what may move.
         layout: PathBuf,
@@ -110,26 +134,30 @@ pub enum Command {
         /// [optimize] seed, else 1].
         #[arg(long)]
         seed: Option<u64>,
-        /// Largest number of layout evaluations [default: the layout's
-        /// [optimize] max_evals, else 20000].
-        #[arg(long)]
+        /// Largest number of layout evaluations, at least one more than the
+        /// search's population (30 to 200, ten per free coordinate) for each stage
+        /// of the objective [default: the layout's [optimize] max_evals, else 20000].
+        #[arg(long, allow_hyphen_values = true, value_parser = values::max_evals)]
         max_evals: Option<usize>,
-        /// Stop after this many seconds and keep the best so far.
-        #[arg(long)]
+        /// Stop after this long and keep the best so far: a time with a unit such
+        /// as "30 s" or "2 min", at most 24 h [default: the layout's [optimize]
+        /// time_limit, else none].
+        #[arg(long, allow_hyphen_values = true, value_parser = values::time_limit)]
         time_limit: Option<f64>,
         /// What to maximise: margin, ratio:R, gas, side-force, a weighted mix such as
         /// "margin=1,ratio:4=0.2", or an order such as "margin then gas" (formulas in
         /// the README) [default: the layout's [optimize] objective, else margin].
-        #[arg(long)]
-        objective: Option<String>,
-        /// With "A then B": the fraction of A's best that B may give up [default: 0.01].
-        #[arg(long)]
+        #[arg(long, value_parser = values::objective)]
+        objective: Option<Objective>,
+        /// With "A then B": the fraction of A's best that B may give up, from 0 up
+        /// to, not including, 1 [default: the layout's [optimize] then_within, else 0.01].
+        #[arg(long, allow_hyphen_values = true, value_parser = values::then_within)]
         then_within: Option<f64>,
         /// Side-force limit on the allocations behind the objective, e.g. "0.5 N";
         /// "0 N" allows pure couples only [default: the layout's [limits] side_force,
         /// else none].
-        #[arg(long)]
-        side_force: Option<String>,
+        #[arg(long, allow_hyphen_values = true, value_parser = values::side_force)]
+        side_force: Option<SideForceLimit>,
         /// Write the convergence plot (SVG) here.
         #[arg(long)]
         plot: Option<PathBuf>,
@@ -148,31 +176,4 @@ pub enum TableFormat {
     Csv,
     /// JSON.
     Json,
-}
-
-fn number(text: &str) -> Result<f64, String> {
-    match text.trim().parse::<f64>() {
-        Ok(v) if v.is_finite() => Ok(v),
-        _ => Err(format!("expected a plain number, found \"{text}\"")),
-    }
-}
-
-/// `--fraction`: a number from 0 to 1.
-fn fraction_value(text: &str) -> Result<f64, String> {
-    let v = number(text)?;
-    if (0.0..=1.0).contains(&v) {
-        Ok(v)
-    } else {
-        Err(format!("expected a number from 0 to 1, found {v}"))
-    }
-}
-
-/// `--tolerance`: a number of 0 or more.
-fn tolerance_value(text: &str) -> Result<f64, String> {
-    let v = number(text)?;
-    if v >= 0.0 {
-        Ok(v)
-    } else {
-        Err(format!("expected a number of 0 or more, found {v}"))
-    }
 }

@@ -8,13 +8,13 @@ use portwright::analysis::score::{MarginScore, Objective, Term};
 use portwright::analysis::{self, Analysis};
 use portwright::export::plots::{best_so_far, convergence_svg, Convergence, PlotSettings, Sense};
 use portwright::layout;
+use portwright::layout::{Layout, OptimizerSections};
 use portwright::model::Design;
 use portwright::optimize::constraints::{Constraints, Limits};
 use portwright::optimize::search::Outcome;
 use portwright::optimize::variables::DrillSeries;
-use portwright::optimize::{
-    optimize_stages, sections_from_str, SectionError, Sections, StagedSettings,
-};
+use portwright::optimize::{optimize_stages, StagedSettings};
+use portwright::units::signed;
 use std::fmt::Write;
 use std::sync::atomic::AtomicBool;
 
@@ -38,24 +38,14 @@ pub struct Options {
     pub max_evals: Option<usize>,
     /// Wall-clock limit, s.
     pub time_limit: Option<f64>,
-    /// Objective text.
-    pub objective: Option<String>,
+    /// Objective.
+    pub objective: Option<Objective>,
     /// Lexicographic tolerance.
     pub then_within: Option<f64>,
-    /// Side-force limit text, e.g. "0.5 N" or "0 N".
-    pub side_force: Option<String>,
+    /// Side-force limit.
+    pub side_force: Option<SideForceLimit>,
     /// Print JSON instead of text.
     pub json: bool,
-}
-
-/// `file:line:col: section.field: message`, or `file: section.field: message`
-/// when the place is unknown.
-fn in_file(source: &str, e: &SectionError) -> anyhow::Error {
-    if e.line == 0 {
-        anyhow!("{source}: {e}")
-    } else {
-        anyhow!("{source}:{e}")
-    }
 }
 
 /// What one layout achieves, as the report shows it.
@@ -151,43 +141,55 @@ fn summarize(
 
 /// Run the search and build the before/after report.
 pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Result<Optimised> {
-    let design = layout::parse_str(text, source)?;
-    let Sections {
-        freedoms,
-        limits,
-        plan,
-    } = sections_from_str(text).map_err(|e| in_file(source, &e))?;
+    let Layout {
+        design,
+        optimizer:
+            OptimizerSections {
+                freedoms,
+                limits,
+                plan,
+            },
+    } = layout::parse_layout(text, source)?;
     if freedoms.is_empty() {
         bail!("{source}: no [[freedom]] sections: say which ports may move and how far (see the README)");
     }
-    let objective = match (&opts.objective, &plan.objective) {
-        (Some(t), _) => Objective::parse(t).map_err(|e| anyhow!("--objective: {e}"))?,
-        (None, Some(t)) => Objective::parse(t).map_err(|e| {
-            in_file(
-                source,
-                &SectionError::new("optimize", "objective", e).located(text),
-            )
-        })?,
-        (None, None) => Objective::default(),
-    };
-    let objective = match (opts.then_within, plan.then_within) {
-        (Some(f), _) => objective
+    // The layout reader has checked the file's objective and `then_within`;
+    // the options were checked when the command line was read.
+    let objective = opts
+        .objective
+        .clone()
+        .or(plan.objective)
+        .unwrap_or_default();
+    let objective = match opts.then_within.or(plan.then_within) {
+        Some(f) => objective
             .with_then_within(f)
             .map_err(|e| anyhow!("--then-within: {e}"))?,
-        (None, Some(f)) => objective
-            .with_then_within(f)
-            .map_err(|e| anyhow!("{source}: optimize.then_within: {e}"))?,
-        (None, None) => objective,
+        None => objective,
     };
-    let side = match &opts.side_force {
-        Some(t) => super::allocate::side_force(Some(t))?,
-        None => SideForceLimit::from_newtons(limits.side_force_n),
-    };
+    let side = opts
+        .side_force
+        .unwrap_or_else(|| SideForceLimit::from_newtons(limits.side_force_n));
     let seed = opts.seed.or(plan.seed).unwrap_or(1);
-    let max_evals = opts.max_evals.or(plan.max_evaluations).unwrap_or(20_000);
-    if max_evals < 2 {
-        bail!("--max-evals: expected at least 2");
-    }
+    let least = layout::optimizer::least_evaluations(&design, &freedoms, objective.stages.len());
+    let max_evals = match opts.max_evals {
+        Some(n) if n < least => {
+            return Err(anyhow::Error::new(super::values::UsageError(format!(
+                "--max-evals: expected at least {least} for these freedoms and this objective (one generation of the search: its population plus one, for each stage), found {n}"
+            ))))
+        }
+        Some(n) => n,
+        // The layout's budget was checked for its own objective; an objective from
+        // the command line with more stages may need more.
+        None => match plan.max_evaluations {
+            Some(n) if n < least => {
+                return Err(anyhow::Error::new(super::values::UsageError(format!(
+                    "--objective: `{objective}` needs at least {least} evaluations (its population plus one, for each stage), but the layout's [optimize] max_evals is {n}; give --max-evals"
+                ))))
+            }
+            Some(n) => n,
+            None => 20_000usize.max(least),
+        },
+    };
     let time_limit = opts.time_limit.or(plan.time_limit_s);
 
     let before = analysis::analyze(&design)?;
@@ -373,6 +375,7 @@ fn summary_json(s: &Summary) -> serde_json::Value {
             "authority_n_m": st.authority,
             "required_n_m": st.required,
             "margin": st.margin.map(finite),
+            "margin_note": st.required.map(|r| (r <= 0.0).then_some(portwright::analysis::authority::NO_REQUIREMENT)),
             "gas_at_required_kg_s": st.gas_kg_s,
             "side_force_at_required_n": st.side_n,
             "required_out_of_reach": st.saturated,
@@ -436,7 +439,7 @@ fn report(
             "evaluations": evaluations,
             "stages": outcomes.iter().map(|o| serde_json::json!({
                 "evaluations": o.evaluations,
-                "stop": format!("{:?}", o.stop),
+                "stop": o.stop.describe(),
                 "elapsed_s": o.elapsed.as_secs_f64(),
                 "best": o.score.merit,
             })).collect::<Vec<_>>(),
@@ -451,7 +454,7 @@ fn report(
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
     let mut s = String::new();
-    let stops: Vec<String> = outcomes.iter().map(|o| format!("{:?}", o.stop)).collect();
+    let stops: Vec<&str> = outcomes.iter().map(|o| o.stop.describe()).collect();
     let _ = writeln!(
         s,
         "optimised {} for `{objective}`: worst margin {:.3} -> {:.3}",
@@ -512,7 +515,7 @@ fn report(
                 if st.margin[k].is_finite() {
                     format!("{:.2}", st.margin[k])
                 } else {
-                    "-".to_string()
+                    "none required".to_string()
                 }
             };
             let gas = |st: &StateSummary| match st.gas_kg_s[k] {
@@ -586,12 +589,12 @@ fn report(
         any = true;
         let _ = writeln!(
             s,
-            "  {:<14} station {:+.1} mm, clock {:+.1} deg, tangential cant {:+.1} deg, axial cant {:+.1} deg, hole {:.2} -> {:.2} mm",
+            "  {:<14} station {} mm, clock {} deg, tangential cant {} deg, axial cant {} deg, hole {:.2} -> {:.2} mm",
             a.name,
-            (b.station_m - a.station_m) * 1e3,
-            wrap(b.clock_rad - a.clock_rad).to_degrees(),
-            (b.tangential_cant_rad - a.tangential_cant_rad).to_degrees(),
-            (b.axial_cant_rad - a.axial_cant_rad).to_degrees(),
+            signed((b.station_m - a.station_m) * 1e3, 1),
+            signed(wrap(b.clock_rad - a.clock_rad).to_degrees(), 1),
+            signed((b.tangential_cant_rad - a.tangential_cant_rad).to_degrees(), 1),
+            signed((b.axial_cant_rad - a.axial_cant_rad).to_degrees(), 1),
             a.nozzle.hole_diameter_m() * 1e3,
             b.nozzle.hole_diameter_m() * 1e3
         );

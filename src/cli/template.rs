@@ -30,7 +30,7 @@ pub enum RulerUnit {
 #[derive(Debug, Clone, Copy, clap::Args)]
 pub struct TemplateArgs {
     /// Paper for the drilling template pages.
-    #[arg(long, value_enum, default_value = "a4")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "a4")]
     pub paper: PaperSize,
     /// Turn the paper: long side horizontal.
     #[arg(long)]
@@ -39,7 +39,7 @@ pub struct TemplateArgs {
     #[arg(long)]
     pub single_sheet: bool,
     /// Units of the station ticks [default: in with --paper letter, else mm].
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     pub ruler_unit: Option<RulerUnit>,
 }
 

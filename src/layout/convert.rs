@@ -19,6 +19,24 @@ use toml::Spanned;
 /// The optimiser uses its own, usually larger, margin.
 const PLACEMENT_MARGIN_M: f64 = 0.0;
 
+/// Largest station, length or diameter accepted, m. Altitudes have their own
+/// range (the standard atmosphere's).
+pub const MAX_BODY_LENGTH_M: f64 = 100.0;
+
+/// Largest thrust misalignment accepted, degrees. Motor misalignments are
+/// fractions of a degree; the bound keeps sin(angle) growing with the angle.
+pub const MAX_MISALIGNMENT_DEG: f64 = 10.0;
+
+/// Smallest hole, throat, exit or orifice diameter accepted, m (0.05 mm: finer
+/// than any twist drill; a smaller one gives flows too small to be numbers).
+pub const MIN_FLOW_DIAMETER_M: f64 = 0.05e-3;
+
+/// Range of flow coefficients accepted: far below the smallest solenoid valve
+/// and far above a large hand valve.
+pub const MIN_CV: f64 = 1e-4;
+/// See [`MIN_CV`].
+pub const MAX_CV: f64 = 100.0;
+
 struct Reader<'a> {
     text: &'a str,
     problems: Vec<Diagnostic>,
@@ -37,10 +55,24 @@ impl<'a> Reader<'a> {
     }
 
     fn qty(&mut self, q: &Q, field: &str, kind: Kind) -> f64 {
+        // Stations, lengths and diameters have a tighter range than altitudes.
+        let body_length = kind == Kind::Length && !field.ends_with(".altitude");
+        let out_of_body = |v: f64| body_length && v.abs() > MAX_BODY_LENGTH_M;
         match units::parse(q.get_ref(), kind) {
-            Ok(v) => v,
-            Err(e) => {
+            Ok(v) if !out_of_body(v) => v,
+            Err(e) if !(body_length && matches!(e, units::UnitError::OutOfRange { .. })) => {
                 self.problem(q.span(), field, e.to_string());
+                f64::NAN
+            }
+            _ => {
+                self.problem(
+                    q.span(),
+                    field,
+                    format!(
+                        "expected a length within 100 m of the nose tip (no vehicle is longer), found \"{}\"",
+                        units::shown(q.get_ref())
+                    ),
+                );
                 f64::NAN
             }
         }
@@ -149,12 +181,48 @@ impl<'a> Reader<'a> {
                     self.problem(
                         s.span(),
                         field,
-                        format!("expected a number from {low} to {high}, found {x}"),
+                        format!(
+                            "expected a number from {low} to {high}, found {}",
+                            units::shown_number(x)
+                        ),
                     );
                 }
                 x
             }
         }
+    }
+
+    /// A hole, throat, exit or orifice diameter: at least [`MIN_FLOW_DIAMETER_M`],
+    /// so that every flow, and every time computed from a flow, is a number.
+    fn flow_diameter(&mut self, q: &Q, field: &str) -> f64 {
+        let v = self.qty(q, field, Kind::Length);
+        if v.is_finite() && v < MIN_FLOW_DIAMETER_M {
+            self.problem(
+                q.span(),
+                field,
+                format!(
+                    "expected a diameter of at least 0.05 mm (finer than any drill), found \"{}\"",
+                    units::shown(q.get_ref())
+                ),
+            );
+        }
+        v
+    }
+
+    /// A flow coefficient Cv: at least [`MIN_CV`].
+    fn flow_coefficient(&mut self, v: &Spanned<f64>, field: &str) -> f64 {
+        let x = self.positive_number(v, field);
+        if x.is_finite() && x > 0.0 && !(MIN_CV..=MAX_CV).contains(&x) {
+            self.problem(
+                v.span(),
+                field,
+                format!(
+                    "expected a flow coefficient from {MIN_CV} to {MAX_CV}, found {}",
+                    units::shown_number(x)
+                ),
+            );
+        }
+        x
     }
 
     fn positive_number(&mut self, v: &Spanned<f64>, field: &str) -> f64 {
@@ -163,7 +231,10 @@ impl<'a> Reader<'a> {
             self.problem(
                 v.span(),
                 field,
-                format!("expected a number above zero, found {x}"),
+                format!(
+                    "expected a number above zero, found {}",
+                    units::shown_number(x)
+                ),
             );
         }
         x
@@ -585,7 +656,7 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
     let supply = match (&g.supply_cv, &g.droop, &g.droop_at) {
         (None, None, None) => SupplyCapacity::Unlimited,
         (Some(cv), None, None) => SupplyCapacity::Cv {
-            cv: r.positive_number(cv, "feed.regulator.supply_cv"),
+            cv: r.flow_coefficient(cv, "feed.regulator.supply_cv"),
             xt: r.fraction(
                 g.supply_xt.as_ref(),
                 "feed.regulator.supply_xt",
@@ -594,10 +665,23 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
                 1.0,
             ),
         },
-        (None, Some(d), Some(at)) => SupplyCapacity::Droop {
-            droop_pa: r.pressure_difference(d, "feed.regulator.droop"),
-            at_flow_kg_s: r.positive(at, "feed.regulator.droop_at", Kind::MassFlow),
-        },
+        (None, Some(d), Some(at)) => {
+            let droop_pa = r.pressure_difference(d, "feed.regulator.droop");
+            let at_flow_kg_s = r.positive(at, "feed.regulator.droop_at", Kind::MassFlow);
+            if droop_pa == 0.0 {
+                // No droop at all: the regulator holds its set pressure at any flow.
+                r.readings.push(format!(
+                    "feed.regulator.droop = \"{}\" means no droop: the regulator holds its set pressure at any flow",
+                    units::shown(d.get_ref())
+                ));
+                SupplyCapacity::Unlimited
+            } else {
+                SupplyCapacity::Droop {
+                    droop_pa,
+                    at_flow_kg_s,
+                }
+            }
+        }
         _ => {
             r.problem(
                 f.regulator.span(),
@@ -616,11 +700,11 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
     let v = f.valve.get_ref();
     let flow = match (&v.cv, &v.orifice) {
         (Some(cv), None) => ValveFlow::Cv {
-            cv: r.positive_number(cv, "feed.valve.cv"),
+            cv: r.flow_coefficient(cv, "feed.valve.cv"),
             xt: r.fraction(v.xt.as_ref(), "feed.valve.xt", 0.7, 0.05, 1.0),
         },
         (None, Some(d)) => ValveFlow::Orifice {
-            diameter_m: r.positive(d, "feed.valve.orifice", Kind::Length),
+            diameter_m: r.flow_diameter(d, "feed.valve.orifice"),
             discharge_coefficient: r.fraction(
                 v.discharge_coefficient.as_ref(),
                 "feed.valve.discharge_coefficient",
@@ -689,12 +773,12 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
         );
         let nozzle = match (&p.hole, &p.throat, &p.exit) {
             (Some(h), None, None) => NozzleSpec::Hole {
-                diameter_m: r.positive(h, &format!("{field}.hole"), Kind::Length),
+                diameter_m: r.flow_diameter(h, &format!("{field}.hole")),
                 discharge_coefficient: cd,
             },
             (None, Some(t), Some(e)) => {
-                let throat = r.positive(t, &format!("{field}.throat"), Kind::Length);
-                let exit = r.positive(e, &format!("{field}.exit"), Kind::Length);
+                let throat = r.flow_diameter(t, &format!("{field}.throat"));
+                let exit = r.flow_diameter(e, &format!("{field}.exit"));
                 if throat.is_finite() && exit.is_finite() && exit < throat {
                     r.problem(
                         e.span(),
@@ -860,12 +944,28 @@ fn read_requirements(r: &mut Reader, q: &RequirementsFile) -> Requirements {
             Kind::Force,
             0.0,
         ),
-        thrust_misalignment_rad: r.opt_non_negative(
-            q.thrust_misalignment.as_ref(),
-            "requirements.thrust_misalignment",
-            Kind::Angle,
-            0.0,
-        ),
+        thrust_misalignment_rad: {
+            let v = r.opt_non_negative(
+                q.thrust_misalignment.as_ref(),
+                "requirements.thrust_misalignment",
+                Kind::Angle,
+                0.0,
+            );
+            match &q.thrust_misalignment {
+                Some(t) if v.is_finite() && v > MAX_MISALIGNMENT_DEG.to_radians() => {
+                    r.problem(
+                        t.span(),
+                        "requirements.thrust_misalignment",
+                        format!(
+                            "expected an angle from 0 deg to {MAX_MISALIGNMENT_DEG:.0} deg (a motor further off the axis is not a misalignment), found \"{}\"",
+                            units::shown(t.get_ref())
+                        ),
+                    );
+                    f64::NAN
+                }
+                _ => v,
+            }
+        },
         roll_disturbance_n_m: r.opt_non_negative(
             q.roll_disturbance.as_ref(),
             "requirements.roll_disturbance",

@@ -36,16 +36,13 @@ pub struct LayoutFile {
     /// Manoeuvres for the gas budget.
     #[serde(default)]
     pub manoeuvre: Vec<Spanned<ManoeuvreFile>>,
-    /// What the optimiser may move: read by `optimize::sections_from_str`, kept
-    /// as raw TOML here so this stage does not reject it.
+    /// What the optimiser may move.
     #[serde(default)]
-    pub freedom: Option<toml::Value>,
-    /// The optimiser's rules; see `freedom`.
-    #[serde(default)]
-    pub limits: Option<toml::Value>,
-    /// How the optimiser searches; see `freedom`.
-    #[serde(default)]
-    pub optimize: Option<toml::Value>,
+    pub freedom: Vec<Spanned<FreedomFile>>,
+    /// The optimiser's rules.
+    pub limits: Option<Spanned<LimitsFile>>,
+    /// How the optimiser searches.
+    pub optimize: Option<Spanned<SearchFile>>,
 }
 
 /// `[airframe]`.
@@ -335,4 +332,61 @@ pub struct StateFile {
     pub ixx: Option<Q>,
     /// Measured transverse inertia.
     pub iyy: Option<Q>,
+}
+
+/// `[[freedom]]`: ports the optimiser may move, and how far.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FreedomFile {
+    /// Port names.
+    pub ports: Spanned<Vec<Spanned<String>>>,
+    /// each, mirror or ring.
+    pub together: Option<Spanned<String>>,
+    /// Station range: from, to.
+    pub station: Option<Spanned<Vec<Q>>>,
+    /// Clock range.
+    pub clock: Option<Spanned<Vec<Q>>>,
+    /// Tangential cant range.
+    pub tangential_cant: Option<Spanned<Vec<Q>>>,
+    /// Axial cant range.
+    pub axial_cant: Option<Spanned<Vec<Q>>>,
+    /// A drill series name or a list of sizes (read by `convert`, which says
+    /// which of the two shapes was expected).
+    pub drills: Option<Spanned<toml::Value>>,
+    /// Keep only drills inside this range.
+    pub hole_range: Option<Spanned<Vec<Q>>>,
+}
+
+/// `[limits]`: the optimiser's geometric rules.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct LimitsFile {
+    /// Clearance to fin roots and keep-outs.
+    pub margin: Option<Q>,
+    /// Least hole spacing, in hole diameters.
+    pub spacing: Option<Spanned<f64>>,
+    /// Least edge distance, in hole diameters.
+    pub edge_distance: Option<Spanned<f64>>,
+    /// Largest total cant.
+    pub max_cant: Option<Q>,
+    /// Exhaust cone half-angle.
+    pub plume_half_angle: Option<Q>,
+    /// Side-force limit for the allocations behind the objective.
+    pub side_force: Option<Q>,
+}
+
+/// `[optimize]`: how the optimiser searches.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct SearchFile {
+    /// What to maximise.
+    pub objective: Option<Spanned<String>>,
+    /// For `A then B`: the fraction of A's best B may give up.
+    pub then_within: Option<Spanned<f64>>,
+    /// Random seed.
+    pub seed: Option<Spanned<i64>>,
+    /// Largest number of layout evaluations.
+    pub max_evals: Option<Spanned<i64>>,
+    /// Wall-clock limit.
+    pub time_limit: Option<Q>,
 }

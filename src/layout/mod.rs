@@ -8,8 +8,14 @@
 
 pub mod convert;
 pub mod file;
-pub mod precision;
+pub mod locate;
+pub mod optimizer;
+mod syntax;
+mod text_bounds;
+pub use crate::precision;
 pub mod write;
+
+pub use optimizer::{OptimizerSections, SearchPlan};
 
 use crate::model::Design;
 use std::fmt;
@@ -91,64 +97,120 @@ pub fn line_column(text: &str, offset: usize) -> (usize, usize) {
     (line, col)
 }
 
-/// Parse layout text. `source_name` is used only in messages.
+/// A whole layout: the design and the optimiser's sections, every part checked.
+#[derive(Debug, Clone)]
+pub struct Layout {
+    /// The validated model.
+    pub design: Design,
+    /// `[[freedom]]`, `[limits]` and `[optimize]`, typed.
+    pub optimizer: OptimizerSections,
+}
+
+/// The longest text value accepted anywhere in a layout (names, labels,
+/// choices), in characters. Names are printed in reports, tables and drawings;
+/// a bound keeps every output small and its cost linear.
+pub const MAX_TEXT_LEN: usize = 200;
+
+/// The largest layout file read, in bytes (16 MiB). Real layouts are a few
+/// kilobytes; the bound keeps a wrong file from exhausting memory.
+pub const MAX_FILE_BYTES: u64 = 16 << 20;
+
+fn invalid(source_name: &str, problems: Vec<Diagnostic>) -> LayoutError {
+    LayoutError::Invalid {
+        source_name: source_name.to_string(),
+        problems,
+    }
+}
+
+/// Parse layout text into the design. `source_name` is used only in messages.
 pub fn parse_str(text: &str, source_name: &str) -> Result<Design, LayoutError> {
-    let raw: file::LayoutFile = toml::from_str(text).map_err(|e| {
-        let (line, column) = e.span().map_or((1, 1), |s| line_column(text, s.start));
-        let mut message = e.message().trim().to_string();
-        if message.contains("expected a string") {
-            message.push_str(" (quantities are strings with a unit, such as \"54 mm\")");
+    parse_layout(text, source_name).map(|l| l.design)
+}
+
+/// Parse layout text into the design and the optimiser's sections. Every
+/// section is checked, so every command refuses the same bad files.
+pub fn parse_layout(text: &str, source_name: &str) -> Result<Layout, LayoutError> {
+    let long = text_bounds::too_long(text, MAX_TEXT_LEN);
+    if !long.is_empty() {
+        return Err(invalid(source_name, long));
+    }
+    let raw: file::LayoutFile =
+        toml::from_str(text).map_err(|e| invalid(source_name, vec![syntax::problem(text, &e)]))?;
+    let design = convert::to_design(&raw, text);
+    let mut problems = match &design {
+        Ok(_) => Vec::new(),
+        Err(p) => p.clone(),
+    };
+    let optimizer = optimizer::read(
+        &raw.freedom,
+        raw.limits.as_ref(),
+        raw.optimize.as_ref(),
+        design.as_ref().ok(),
+        text,
+        &mut problems,
+    );
+    match design {
+        Ok(mut design) if problems.is_empty() => {
+            // The drillable-cant rule of `[limits]` is also checked by the analysis.
+            design.max_cant_rad = optimizer.limits.max_total_cant_rad;
+            Ok(Layout { design, optimizer })
         }
-        LayoutError::Invalid {
-            source_name: source_name.to_string(),
-            problems: vec![Diagnostic {
+        _ => {
+            problems.sort_by_key(|p| (p.line, p.column));
+            Err(invalid(source_name, problems))
+        }
+    }
+}
+
+/// Read a layout file's text: at most [`MAX_FILE_BYTES`], and UTF-8 (the
+/// message names the line and column of the first byte that is not).
+pub fn read_text(path: &Path) -> Result<String, LayoutError> {
+    let read_error = |source| LayoutError::Read {
+        path: path.display().to_string(),
+        source,
+    };
+    let size = std::fs::metadata(path).map_err(read_error)?.len();
+    if size > MAX_FILE_BYTES {
+        return Err(invalid(
+            &path.display().to_string(),
+            vec![Diagnostic {
+                line: 1,
+                column: 1,
+                field: String::new(),
+                message: format!(
+                    "the file holds {size} bytes; a layout may hold at most {MAX_FILE_BYTES} bytes (16 MiB)"
+                ),
+            }],
+        ));
+    }
+    let bytes = std::fs::read(path).map_err(read_error)?;
+    String::from_utf8(bytes).map_err(|e| {
+        let good = e.utf8_error().valid_up_to();
+        let bytes = e.as_bytes();
+        // Everything before the bad byte is valid UTF-8.
+        let before = std::str::from_utf8(&bytes[..good]).unwrap_or("");
+        let (line, column) = line_column(before, before.len());
+        invalid(
+            &path.display().to_string(),
+            vec![Diagnostic {
                 line,
                 column,
                 field: String::new(),
-                message,
+                message: format!(
+                    "byte 0x{:02X} is not UTF-8 text: save the layout as UTF-8",
+                    bytes.get(good).copied().unwrap_or(0)
+                ),
             }],
-        }
-    })?;
-    let design = convert::to_design(&raw, text);
-    // The optimiser's sections are checked here too, so every command rejects a
-    // bad one, not only `optimize`.
-    let sections = crate::optimize::sections_from_str(text);
-    let max_cant_rad = sections.as_ref().ok().map(|s| s.limits.max_total_cant_rad);
-    let sections = sections.err().map(|e| Diagnostic {
-        line: e.line.max(1),
-        column: e.column.max(1),
-        field: if e.field.is_empty() {
-            e.section.clone()
-        } else {
-            format!("{}.{}", e.section, e.field)
-        },
-        message: e.message.clone(),
-    });
-    match (design, sections) {
-        (Ok(mut d), None) => {
-            if let Some(m) = max_cant_rad {
-                d.max_cant_rad = m;
-            }
-            Ok(d)
-        }
-        (Ok(_), Some(p)) => Err(vec![p]),
-        (Err(mut problems), extra) => {
-            problems.extend(extra);
-            problems.sort_by_key(|p| (p.line, p.column));
-            Err(problems)
-        }
-    }
-    .map_err(|problems| LayoutError::Invalid {
-        source_name: source_name.to_string(),
-        problems,
+        )
     })
 }
 
-/// Read and parse a layout file.
+/// Read and parse a layout file into the design.
 pub fn load(path: &Path) -> Result<Design, LayoutError> {
-    let text = std::fs::read_to_string(path).map_err(|source| LayoutError::Read {
-        path: path.display().to_string(),
-        source,
-    })?;
-    parse_str(&text, &path.display().to_string())
+    load_layout(path).map(|l| l.design)
+}
+
+/// Read and parse a layout file into the design and the optimiser's sections.
+pub fn load_layout(path: &Path) -> Result<Layout, LayoutError> {
+    parse_layout(&read_text(path)?, &path.display().to_string())
 }

@@ -27,9 +27,7 @@
 use super::SectionError;
 use crate::airframe::placement::{describe, for_each_overlap, Clearance, Conflict, Obstacle};
 use crate::model::{Airframe, Port};
-use crate::units::{self, Kind};
 use nalgebra::Vector3;
-use serde::Deserialize;
 use std::f64::consts::FRAC_PI_2;
 use std::fmt;
 
@@ -131,68 +129,6 @@ impl Limits {
             }
         }
         Ok(())
-    }
-}
-
-/// A `[limits]` section as written in a layout file.
-#[derive(Debug, Clone, Default, Deserialize, PartialEq)]
-#[serde(deny_unknown_fields)]
-pub struct LimitsFile {
-    /// Clearance to fin roots and keep-outs, a length.
-    pub margin: Option<String>,
-    /// Least hole spacing, in hole diameters.
-    pub spacing: Option<f64>,
-    /// Least edge distance, in hole diameters.
-    pub edge_distance: Option<f64>,
-    /// Largest total cant, an angle.
-    pub max_cant: Option<String>,
-    /// Exhaust cone half-angle, an angle.
-    pub plume_half_angle: Option<String>,
-    /// Side-force limit for the merit's allocations, a force.
-    pub side_force: Option<String>,
-}
-
-impl LimitsFile {
-    /// Turn the section into checked [`Limits`], defaults for fields not given.
-    pub fn to_limits(&self) -> Result<Limits, SectionError> {
-        let d = Limits::default();
-        let q = |field: &str,
-                 v: &Option<String>,
-                 kind: Kind,
-                 default: f64|
-         -> Result<f64, SectionError> {
-            v.as_ref().map_or(Ok(default), |t| {
-                units::parse(t, kind).map_err(|e| SectionError::new("limits", field, e.to_string()))
-            })
-        };
-        let limits = Limits {
-            margin_m: q("margin", &self.margin, Kind::Length, d.margin_m)?,
-            spacing_diameters: self.spacing.unwrap_or(d.spacing_diameters),
-            edge_distance_diameters: self.edge_distance.unwrap_or(d.edge_distance_diameters),
-            max_total_cant_rad: q(
-                "max_cant",
-                &self.max_cant,
-                Kind::Angle,
-                d.max_total_cant_rad,
-            )?,
-            plume_half_angle_rad: q(
-                "plume_half_angle",
-                &self.plume_half_angle,
-                Kind::Angle,
-                d.plume_half_angle_rad,
-            )?,
-            side_force_n: self
-                .side_force
-                .as_ref()
-                .map(|t| {
-                    units::parse(t, Kind::Force)
-                        .map_err(|e| SectionError::new("limits", "side_force", e.to_string()))
-                })
-                .transpose()?,
-            tolerances: d.tolerances,
-        };
-        limits.validate()?;
-        Ok(limits)
     }
 }
 
@@ -949,30 +885,5 @@ mod tests {
             hits > 10,
             "the sample should strike fins sometimes, got {hits}"
         );
-    }
-
-    #[test]
-    fn limits_section_parses_and_names_bad_fields() {
-        let read = crate::optimize::sections_from_str;
-        let l = read(
-            r#"[limits]
-            margin = "3 mm"
-            spacing = 4.0
-            max_cant = "45 deg"
-            plume_half_angle = "10 deg""#,
-        )
-        .unwrap()
-        .limits;
-        assert_relative_eq!(l.margin_m, 3e-3, epsilon = 1e-15);
-        assert_eq!(l.spacing_diameters, 4.0);
-        assert_eq!(l.edge_distance_diameters, 2.0);
-        assert_relative_eq!(l.max_total_cant_rad, 45f64.to_radians(), epsilon = 1e-12);
-        assert_eq!(read("").unwrap().limits, Limits::default());
-        let field = |body: &str| read(&format!("[limits]\n{body}")).unwrap_err().field;
-        assert_eq!(field(r#"margin = "3 kg""#), "margin");
-        assert_eq!(field(r#"max_cant = "95 deg""#), "max_cant");
-        assert_eq!(field("edge_distance = 0.2"), "edge_distance");
-        assert_eq!(field(r#"plume_half_angle = "90 deg""#), "plume_half_angle");
-        assert_eq!(field("spacing = -1.0"), "spacing");
     }
 }

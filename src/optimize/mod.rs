@@ -43,7 +43,7 @@ pub mod search;
 pub mod stages;
 pub mod variables;
 
-pub use constraints::{Breach, Constraints, Limits, LimitsFile, Tolerances, Violation};
+pub use constraints::{Breach, Constraints, Limits, Tolerances, Violation};
 pub use problem::{
     optimize, LayoutProblem, LayoutResult, LayoutScore, LayoutScratch, OptimizeError,
 };
@@ -52,253 +52,33 @@ pub use search::{
     StopReason, Strategy,
 };
 pub use stages::{optimize_stages, StageOutcome, StagedResult, StagedScore, StagedSettings};
-pub use variables::{DrillSeries, Freedom, FreedomFile, Span, Together, VariableError, Variables};
+pub use variables::{DrillSeries, Freedom, Span, Together, VariableError, Variables};
 
-use crate::units::{self, Kind};
-use serde::Deserialize;
 use thiserror::Error;
 
-/// A problem in a `[[freedom]]`, `[limits]` or `[optimize]` section, naming the
-/// field and, once [`located`](SectionError::located) in the text, its line and column.
+/// A setting of the rules out of range, naming the `[limits]` field it comes
+/// from. The layout reader checks the same ranges with the field's place in the
+/// file; this is the optimiser's own guard for callers that build [`Limits`]
+/// in code.
 #[derive(Debug, Clone, PartialEq, Error)]
-#[error("{}{section}{}{field}: {message}", place(*.line, *.column), if .field.is_empty() { "" } else { "." })]
+#[error("{section}{}{field}: {message}", if .field.is_empty() { "" } else { "." })]
 pub struct SectionError {
-    /// Section, e.g. "freedom[1]" or "limits".
+    /// Section, e.g. "limits".
     pub section: String,
     /// Field name (empty when the section as a whole is wrong).
     pub field: String,
     /// What is wrong and what was expected.
     pub message: String,
-    /// 1-based line of the value in the layout text, 0 when not located.
-    pub line: usize,
-    /// 1-based column, 0 when not located.
-    pub column: usize,
-}
-
-fn place(line: usize, column: usize) -> String {
-    if line == 0 {
-        String::new()
-    } else {
-        format!("{line}:{column}: ")
-    }
 }
 
 impl SectionError {
-    /// A problem with `field` of `section`, not yet located in the text.
+    /// A problem with `field` of `section`.
     pub fn new(section: &str, field: &str, message: impl Into<String>) -> Self {
         SectionError {
             section: section.to_string(),
             field: field.to_string(),
             message: message.into(),
-            line: 0,
-            column: 0,
         }
-    }
-
-    /// Find the value (or, failing that, the section) in the layout text and
-    /// record its line and column.
-    pub fn located(mut self, text: &str) -> Self {
-        if let Some(offset) = locate(text, &self.section, &self.field) {
-            (self.line, self.column) = crate::layout::line_column(text, offset);
-        }
-        self
-    }
-}
-
-/// Byte offset of `section.field` in `text`: the value when the field is
-/// present, else the section's header, else nothing.
-fn locate(text: &str, section: &str, field: &str) -> Option<usize> {
-    let doc = toml_edit::Document::parse(text).ok()?;
-    let (name, index) = match section.split_once('[') {
-        Some((n, rest)) => (n, rest.trim_end_matches(']').parse::<usize>().ok()),
-        None => (section, None),
-    };
-    let item = doc.as_table().get(name)?;
-    let table = match index {
-        Some(i) => item.as_array_of_tables()?.get(i)?,
-        None => item.as_table()?,
-    };
-    // A field named like `station[1]` points into an array: its first part is the key.
-    let key = field.split('[').next().unwrap_or(field);
-    table
-        .get(key)
-        .and_then(|v| v.span())
-        .or_else(|| table.span())
-        .map(|r| r.start)
-}
-
-/// An `[optimize]` section: how to search. The command line overrides each field.
-#[derive(Debug, Clone, Default, Deserialize, PartialEq)]
-#[serde(deny_unknown_fields)]
-pub struct SearchFile {
-    /// What to maximise, in the syntax of `--objective`.
-    pub objective: Option<String>,
-    /// For `A then B`: how much of A's best B may give up, a fraction.
-    pub then_within: Option<f64>,
-    /// Random seed.
-    pub seed: Option<u64>,
-    /// Largest number of layout evaluations.
-    pub max_evals: Option<u64>,
-    /// Wall-clock limit, a time such as "30 s".
-    pub time_limit: Option<String>,
-}
-
-/// A checked `[optimize]` section; `None` where the file says nothing.
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct SearchPlan {
-    /// Objective text (checked by the caller, who knows the objectives).
-    pub objective: Option<String>,
-    /// Lexicographic tolerance, a fraction in [0, 1).
-    pub then_within: Option<f64>,
-    /// Random seed.
-    pub seed: Option<u64>,
-    /// Largest number of evaluations, at least 2.
-    pub max_evaluations: Option<usize>,
-    /// Wall-clock limit, s.
-    pub time_limit_s: Option<f64>,
-}
-
-impl SearchFile {
-    /// Check the values; the error names the field.
-    pub fn to_plan(&self) -> Result<SearchPlan, SectionError> {
-        let bad = |field: &str, msg: &str| SectionError::new("optimize", field, msg);
-        if let Some(f) = self.then_within {
-            if !(f.is_finite() && (0.0..1.0).contains(&f)) {
-                return Err(bad(
-                    "then_within",
-                    "expected a fraction from 0 up to, not including, 1 (0.01 gives up at most 1 %)",
-                ));
-            }
-        }
-        let max_evaluations = match self.max_evals {
-            Some(n) if n < 2 => {
-                return Err(bad("max_evals", "expected a whole number of at least 2"))
-            }
-            Some(n) => Some(usize::try_from(n).map_err(|_| bad("max_evals", "too large"))?),
-            None => None,
-        };
-        let time_limit_s = match &self.time_limit {
-            Some(t) => {
-                let v = units::parse(t, Kind::Time)
-                    .map_err(|e| SectionError::new("optimize", "time_limit", e.to_string()))?;
-                if !(v.is_finite() && v > 0.0) {
-                    return Err(bad(
-                        "time_limit",
-                        "expected a time above zero, such as \"30 s\"",
-                    ));
-                }
-                Some(v)
-            }
-            None => None,
-        };
-        Ok(SearchPlan {
-            objective: self.objective.clone(),
-            then_within: self.then_within,
-            seed: self.seed,
-            max_evaluations,
-            time_limit_s,
-        })
-    }
-}
-
-/// The optimiser's sections of a layout.
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct Sections {
-    /// `[[freedom]]`: what may move.
-    pub freedoms: Vec<Freedom>,
-    /// `[limits]`: the rules (defaults when absent).
-    pub limits: Limits,
-    /// `[optimize]`: how to search.
-    pub plan: SearchPlan,
-}
-
-/// Read the `[[freedom]]`, `[limits]` and `[optimize]` sections of a layout's text.
-///
-/// The layout reader checks the rest of the file and keeps these sections as raw
-/// TOML; this reads the same text again and turns them into [`Freedom`]s, checked
-/// [`Limits`] (defaults when `[limits]` is absent) and a [`SearchPlan`]. Errors
-/// carry the line and column of the offending value.
-pub fn sections_from_str(text: &str) -> Result<Sections, SectionError> {
-    let raw: RawSections = toml::from_str(text).map_err(|e| type_error(text, &e))?;
-    let read = || -> Result<Sections, SectionError> {
-        let freedoms = raw
-            .freedom
-            .iter()
-            .enumerate()
-            .map(|(k, f)| f.to_freedom(&format!("freedom[{k}]")))
-            .collect::<Result<Vec<_>, _>>()?;
-        let limits = match &raw.limits {
-            Some(l) => l.to_limits()?,
-            None => Limits::default(),
-        };
-        let plan = match &raw.optimize {
-            Some(o) => o.to_plan()?,
-            None => SearchPlan::default(),
-        };
-        Ok(Sections {
-            freedoms,
-            limits,
-            plan,
-        })
-    };
-    read().map_err(|e| e.located(text))
-}
-
-/// The optimiser's sections, typed, read straight from the text so that a wrong
-/// type or an unknown field comes back with its place. Other sections are left
-/// to the layout reader.
-#[derive(Debug, Deserialize)]
-struct RawSections {
-    #[serde(default)]
-    freedom: Vec<FreedomFile>,
-    limits: Option<LimitsFile>,
-    optimize: Option<SearchFile>,
-}
-
-/// A TOML or type error in one of the optimiser's sections, with the section
-/// (the nearest table header above the place) and the field (the key on that
-/// line) read back from the text.
-fn type_error(text: &str, e: &toml::de::Error) -> SectionError {
-    let message = e.message().trim().to_string();
-    let Some(span) = e.span() else {
-        return SectionError::new("layout", "", message);
-    };
-    let before = &text[..span.start.min(text.len())];
-    let line_text = before.rsplit('\n').next().unwrap_or("");
-    let rest_of_line = text[before.len()..].split('\n').next().unwrap_or("");
-    let whole_line = format!("{line_text}{rest_of_line}");
-    let field = whole_line
-        .split_once('=')
-        .map(|(k, _)| k.trim())
-        .filter(|k| {
-            !k.is_empty()
-                && k.chars()
-                    .all(|c| c.is_alphanumeric() || c == '_' || c == '-')
-        })
-        .unwrap_or("");
-    let mut count = 0usize;
-    let mut section = "layout".to_string();
-    for l in before.lines() {
-        let l = l.trim();
-        if let Some(name) = l.strip_prefix("[[").and_then(|r| r.split("]]").next()) {
-            let name = name.trim();
-            if name == "freedom" {
-                section = format!("freedom[{count}]");
-                count += 1;
-            } else {
-                section = name.to_string();
-            }
-        } else if let Some(name) = l.strip_prefix('[').and_then(|r| r.split(']').next()) {
-            section = name.trim().to_string();
-        }
-    }
-    let (line, column) = crate::layout::line_column(text, span.start);
-    SectionError {
-        section,
-        field: field.to_string(),
-        message,
-        line,
-        column,
     }
 }
 
@@ -349,11 +129,12 @@ max_cant = "50 deg"
     #[test]
     fn layout_with_freedom_and_limits_runs_end_to_end() {
         let text = format!("{}\n{SECTIONS}", without_sections(DEMO));
-        let design = crate::layout::parse_str(&text, "heron-54.toml")
+        let layout = crate::layout::parse_layout(&text, "heron-54.toml")
             .expect("the reader keeps the sections");
-        let Sections {
+        let design = layout.design;
+        let crate::layout::OptimizerSections {
             freedoms, limits, ..
-        } = sections_from_str(&text).unwrap();
+        } = layout.optimizer;
         assert_eq!(freedoms.len(), 2);
         assert!((limits.max_total_cant_rad - 50f64.to_radians()).abs() < 1e-12);
         let settings = SearchSettings {
@@ -388,10 +169,11 @@ max_cant = "50 deg"
     #[test]
     fn layout_search_is_the_same_with_one_or_two_threads() {
         let text = format!("{}\n{SECTIONS}", without_sections(DEMO));
-        let design = crate::layout::parse_str(&text, "heron-54.toml").unwrap();
-        let Sections {
+        let layout = crate::layout::parse_layout(&text, "heron-54.toml").unwrap();
+        let design = layout.design;
+        let crate::layout::OptimizerSections {
             freedoms, limits, ..
-        } = sections_from_str(&text).unwrap();
+        } = layout.optimizer;
         let settings = SearchSettings {
             seed: 9,
             max_evaluations: 1_500,
@@ -422,43 +204,5 @@ max_cant = "50 deg"
             (&one.x, one.score, &one.history, one.evaluations),
             (&two.x, two.score, &two.history, two.evaluations)
         );
-    }
-
-    #[test]
-    fn bad_sections_name_the_field() {
-        let e = sections_from_str("[limits]\nmax_cant = \"2 m\"").unwrap_err();
-        assert_eq!(
-            (e.section.as_str(), e.field.as_str()),
-            ("limits", "max_cant")
-        );
-        let e = sections_from_str("[[freedom]]\nports = [\"a\"]\nclock = [\"1 deg\", \"x\"]")
-            .unwrap_err();
-        assert_eq!(
-            (e.section.as_str(), e.field.as_str()),
-            ("freedom[0]", "clock")
-        );
-        // Located: line 3, the value's first character.
-        let e = sections_from_str("name = \"x\"\n[limits]\nmax_cant = \"2 m\"").unwrap_err();
-        assert_eq!((e.line, e.column), (3, 12));
-        assert!(e.to_string().starts_with("3:12: limits.max_cant: "), "{e}");
-        let e = sections_from_str("[optimize]\nthen_within = 1.5").unwrap_err();
-        assert_eq!((e.field.as_str(), e.line), ("then_within", 2));
-        let e = sections_from_str("[optimize]\nspeed = 1").unwrap_err();
-        // An unknown key is placed on its own line.
-        assert_eq!((e.section.as_str(), e.line), ("optimize", 2));
-        let e = sections_from_str("[limits]\nside_force = \"-1 N\"").unwrap_err();
-        assert_eq!(e.field, "side_force");
-        assert_eq!(
-            sections_from_str("name = \"x\"").unwrap(),
-            Sections::default()
-        );
-        let s = sections_from_str(
-            "[optimize]\nobjective = \"gas\"\nseed = 4\nmax_evals = 900\ntime_limit = \"2 min\"\n[limits]\nside_force = \"0.5 N\"",
-        )
-        .unwrap();
-        assert_eq!(s.plan.objective.as_deref(), Some("gas"));
-        assert_eq!((s.plan.seed, s.plan.max_evaluations), (Some(4), Some(900)));
-        assert_eq!(s.plan.time_limit_s, Some(120.0));
-        assert_eq!(s.limits.side_force_n, Some(0.5));
     }
 }

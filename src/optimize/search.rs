@@ -212,6 +212,18 @@ pub enum StopReason {
     Stopped,
 }
 
+impl StopReason {
+    /// Plain words for reports.
+    pub fn describe(self) -> &'static str {
+        match self {
+            StopReason::Converged => "converged",
+            StopReason::EvaluationLimit => "evaluation budget spent",
+            StopReason::TimeLimit => "time limit reached",
+            StopReason::Stopped => "stopped on request",
+        }
+    }
+}
+
 /// The result of a search.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Outcome {
@@ -332,6 +344,13 @@ fn best_index(scores: &[Score]) -> usize {
     b
 }
 
+/// The population the search picks for `dimension` coordinates when
+/// [`SearchSettings::population`] is 0: 10·d, kept within 30..=200. A search
+/// needs one more evaluation than this to run one generation.
+pub fn population_for(dimension: usize) -> usize {
+    (10 * dimension).clamp(30, 200)
+}
+
 fn check_settings(s: &SearchSettings, d: usize, starts: usize) -> Result<usize, SearchError> {
     let bad = |field: &'static str, reason: &str| {
         Err(SearchError::BadSettings {
@@ -361,7 +380,7 @@ fn check_settings(s: &SearchSettings, d: usize, starts: usize) -> Result<usize, 
         return bad("collapse_spread", "must be zero or more");
     }
     let population = if s.population == 0 {
-        (10 * d).clamp(30, 200)
+        population_for(d)
     } else {
         s.population
     };

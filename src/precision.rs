@@ -10,6 +10,9 @@
 //! [`exact_text`] writes any value with the fewest decimals that read back to the same
 //! `f64`, so a value that is not on the grid (a fixed port, a hole from a drill list)
 //! is never changed by writing it.
+//!
+//! It sits below both the layout reader and the optimiser (each uses it; it
+//! imports neither), and `layout::precision` names it for the layout writer.
 
 use crate::units::{self, Kind};
 

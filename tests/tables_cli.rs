@@ -1,6 +1,6 @@
 //! The real binary on layouts the firmware tables once could not serve: a
 //! pitch/yaw-only vehicle (committed under `tests/layouts/`), a layout with more
-//! ports than any valve mask holds (generated here), huge torque commands, and
+//! ports than any valve mask holds (generated here), large torque commands, and
 //! out-of-range on/off options.
 
 use std::path::Path;
@@ -151,7 +151,8 @@ fn huge_commands_get_the_exact_scale() {
     // Along one direction (3, 4, −2) the largest attainable torque t* = |B u| is the
     // same for every command out of reach, however far out it is: 1e-9 relative,
     // the allocator's feasibility tolerance on order-one rows. The scale reported
-    // is t*/|τ|, to the same tolerance.
+    // is t*/|τ|, to the same tolerance. The command line takes torques up to
+    // 1e5 N m (about 1e5 times this envelope); the library tests go to 1e15 times.
     let along = |k: f64| -> (f64, f64) {
         let torque = format!("{:e} N m,{:e} N m,{:e} N m", 3.0 * k, 4.0 * k, -2.0 * k);
         let v: serde_json::Value = serde_json::from_str(&ok(&[
@@ -174,7 +175,7 @@ fn huge_commands_get_the_exact_scale() {
     };
     let length = 29f64.sqrt();
     let (base, _) = along(1.0);
-    for k in [1e6, 1e10, 1e12, 1e15] {
+    for k in [1e2, 1e3, 1e4] {
         let (t, scale) = along(k);
         assert!((t - base).abs() <= 1e-9 * base, "{k:e}: {t} against {base}");
         let want = base / (k * length);

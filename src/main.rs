@@ -136,6 +136,26 @@ fn run(cli: Cli) -> Result<()> {
             }
             Ok(())
         }
+        Command::Tolerance {
+            layout,
+            samples,
+            seed,
+            json,
+            out,
+        } => {
+            let outcome = cli::tolerance::run(&layout, samples as usize, seed)?;
+            print!("{}", cli::tolerance::render(&outcome, json)?);
+            if let Some(dir) = out {
+                let files = portwright::asbuilt::plots::files(&outcome.design, &outcome.report, &outcome.run)
+                    .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+                for f in &files {
+                    let path = dir.join(&f.name);
+                    write_atomic(&path, &f.bytes, &[&layout], false)?;
+                    eprintln!("wrote {}", path.display());
+                }
+            }
+            Ok(())
+        }
         Command::Analyze { layout, json, out } => {
             let design = layout::load(&layout)?;
             let analysis = portwright::analysis::analyze(&design)

@@ -46,6 +46,12 @@ pub struct LayoutFile {
     /// How the optimiser searches; see `freedom`.
     #[serde(default)]
     pub optimize: Option<toml::Value>,
+    /// Build tolerances: read by `layout::asbuilt`, kept raw here.
+    #[serde(default)]
+    pub tolerances: Option<toml::Value>,
+    /// Measured ports: read by `layout::asbuilt`, kept raw here.
+    #[serde(default)]
+    pub measured: Option<toml::Value>,
 }
 
 /// `[airframe]`.

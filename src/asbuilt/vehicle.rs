@@ -1,0 +1,414 @@
+//! The vehicle as drawn, reduced to what a sampled as-built vehicle changes,
+//! and the evaluation of one as-built vehicle from a vector of deviations.
+//!
+//! Geometry is exact: each sampled port is re-placed (station, clock, cants)
+//! and its force and torque about the shifted CG are recomputed. Thrust is not
+//! re-solved through regulator, valve and nozzle for every sample (a nested
+//! root search per port and state would cost far more than the ≤ 1 s budget
+//! for 10 000 samples); instead each port's thrust at each flight state is
+//! T = T₀ · (d/d₀)^e_d · (C_d/C_d0)^e_c · (Cv/Cv₀)^e_v · (p_set/p_set0)^e_p,
+//! a power law whose exponents e are the logarithmic derivatives of the full
+//! flow model at the nominal point, taken by central differences of ±1 %.
+//! The tests check it against full solves of perturbed designs.
+//!
+//! Mass and inertias: a mass error is spread over the vehicle like its mass,
+//! so it scales both inertias by the same factor; the inertia tolerances come
+//! on top. The CG shift is the same at every flight state.
+
+use super::spec::{Input, Spread, ToleranceSpec};
+use super::AsBuiltError;
+use crate::analysis::score::ray_limit;
+use crate::analysis::{feed, Analysis};
+use crate::model::{Design, MotorCondition, NozzleSpec, Port, ValveFlow};
+use nalgebra::Vector3;
+use rand::SeedableRng;
+use rand_chacha::ChaCha8Rng;
+
+/// Relative step of the central differences behind the thrust exponents.
+const FLOW_STEP: f64 = 0.01;
+
+/// What one flight state contributes, fixed while the vehicle varies.
+#[derive(Debug, Clone)]
+pub struct StateBasis {
+    /// Flight state name.
+    pub name: String,
+    /// Whether the motor burns (the misalignment torque acts).
+    pub burning: bool,
+    /// Nominal CG, body frame, m.
+    pub cg: Vector3<f64>,
+    /// Nominal diagonal inertia, kg·m².
+    pub inertia: Vector3<f64>,
+    /// Nominal thrust of each port fired alone, N.
+    pub thrust_n: Vec<f64>,
+    /// Exponents of thrust on hole diameter, discharge coefficient, valve Cv and
+    /// set pressure (gauge), per port.
+    pub exponents: Vec<[f64; 4]>,
+    /// Per-port thrust with k valves open relative to one (k = 1, 2, ...).
+    pub droop_factor: Vec<f64>,
+}
+
+/// The design reduced for sampling.
+#[derive(Debug, Clone)]
+pub struct Basis {
+    /// Ports as designed (or as measured, when the layout says so).
+    pub ports: Vec<Port>,
+    /// Tube outer radius, m.
+    pub radius_m: f64,
+    /// Per flight state.
+    pub states: Vec<StateBasis>,
+    /// Inputs that vary, in [`ToleranceSpec::inputs`] order.
+    pub inputs: Vec<(Input, Spread)>,
+    /// Nominal discharge coefficient of each port.
+    pub discharge: Vec<f64>,
+    /// Nominal gauge set pressure, Pa.
+    pub set_pressure_gauge_pa: f64,
+    /// Wanted angular acceleration per axis, rad/s².
+    pub accel_rad_s2: [f64; 3],
+    /// Roll disturbance, N·m.
+    pub roll_disturbance_n_m: f64,
+    /// Motor thrust, N.
+    pub motor_thrust_n: f64,
+    /// Nominal misalignment, rad.
+    pub misalignment_rad: f64,
+    /// Station of the motor nozzle, m.
+    pub nozzle_station_m: f64,
+    /// Valve delays (opening, closing), s.
+    pub delays_s: [f64; 2],
+}
+
+fn discharge_of(p: &Port) -> f64 {
+    match p.nozzle {
+        NozzleSpec::Hole {
+            discharge_coefficient,
+            ..
+        }
+        | NozzleSpec::ConvergingDiverging {
+            discharge_coefficient,
+            ..
+        } => discharge_coefficient,
+    }
+}
+
+/// The design with one flow parameter of every port scaled by `factor`.
+fn scaled(design: &Design, which: usize, factor: f64) -> Design {
+    let mut d = design.clone();
+    match which {
+        0 => {
+            for p in &mut d.ports {
+                p.nozzle = match p.nozzle {
+                    NozzleSpec::Hole {
+                        diameter_m,
+                        discharge_coefficient,
+                    } => NozzleSpec::Hole {
+                        diameter_m: diameter_m * factor,
+                        discharge_coefficient,
+                    },
+                    NozzleSpec::ConvergingDiverging {
+                        throat_diameter_m,
+                        exit_diameter_m,
+                        discharge_coefficient,
+                    } => NozzleSpec::ConvergingDiverging {
+                        throat_diameter_m: throat_diameter_m * factor,
+                        exit_diameter_m: exit_diameter_m * factor,
+                        discharge_coefficient,
+                    },
+                }
+            }
+        }
+        1 => {
+            for p in &mut d.ports {
+                match &mut p.nozzle {
+                    NozzleSpec::Hole {
+                        discharge_coefficient,
+                        ..
+                    }
+                    | NozzleSpec::ConvergingDiverging {
+                        discharge_coefficient,
+                        ..
+                    } => *discharge_coefficient = (*discharge_coefficient * factor).min(1.0),
+                }
+            }
+        }
+        2 => {
+            d.feed.valve.flow = match d.feed.valve.flow {
+                ValveFlow::Cv { cv, xt } => ValveFlow::Cv {
+                    cv: cv * factor,
+                    xt,
+                },
+                // Same relative change of flow area.
+                ValveFlow::Orifice {
+                    diameter_m,
+                    discharge_coefficient,
+                } => ValveFlow::Orifice {
+                    diameter_m: diameter_m * factor.sqrt(),
+                    discharge_coefficient,
+                },
+            }
+        }
+        _ => d.feed.regulator.set_pressure_gauge_pa *= factor,
+    }
+    d
+}
+
+/// Thrust of every port alone at a flight state's ambient pressure, N.
+fn thrusts(design: &Design, state: &str, ambient_pa: f64) -> Result<Vec<f64>, AsBuiltError> {
+    Ok(feed::ports_at(design, state, ambient_pa)
+        .map_err(|e| AsBuiltError::Model(e.to_string()))?
+        .ports
+        .iter()
+        .map(|p| p.thrust_n)
+        .collect())
+}
+
+impl Basis {
+    /// Reduce a design and its analysis for sampling under `spec`.
+    pub fn new(
+        design: &Design,
+        analysis: &Analysis,
+        spec: &ToleranceSpec,
+    ) -> Result<Basis, AsBuiltError> {
+        if spec.ports.len() != design.ports.len() {
+            return Err(AsBuiltError::Model(format!(
+                "the tolerances list {} ports but the design has {}",
+                spec.ports.len(),
+                design.ports.len()
+            )));
+        }
+        // A discharge coefficient of 1 cannot be scaled up; step down only there.
+        let mut states = Vec::with_capacity(analysis.states.len());
+        for s in &analysis.states {
+            let mut exponents = vec![[0.0; 4]; design.ports.len()];
+            for (which, slot) in (0..4).map(|w| (w, w)) {
+                let up = thrusts(
+                    &scaled(design, which, 1.0 + FLOW_STEP),
+                    &s.name,
+                    s.ambient_pressure_pa,
+                )?;
+                let down = thrusts(
+                    &scaled(design, which, 1.0 - FLOW_STEP),
+                    &s.name,
+                    s.ambient_pressure_pa,
+                )?;
+                for (i, e) in exponents.iter_mut().enumerate() {
+                    let hi = if which == 1 {
+                        (discharge_of(&design.ports[i]) * (1.0 + FLOW_STEP)).min(1.0)
+                            / discharge_of(&design.ports[i])
+                    } else {
+                        1.0 + FLOW_STEP
+                    };
+                    e[slot] = if up[i] > 0.0 && down[i] > 0.0 && hi > 1.0 - FLOW_STEP {
+                        (up[i] / down[i]).ln() / (hi / (1.0 - FLOW_STEP)).ln()
+                    } else {
+                        0.0
+                    };
+                }
+            }
+            states.push(StateBasis {
+                name: s.name.clone(),
+                burning: s.motor == MotorCondition::Burning,
+                cg: s.mass.cg(),
+                inertia: s.mass.inertia_diagonal(),
+                thrust_n: s.ports.iter().map(|p| p.thrust_n).collect(),
+                exponents,
+                droop_factor: s
+                    .droop
+                    .iter()
+                    .map(|d| 1.0 - d.thrust_drop_fraction)
+                    .collect(),
+            });
+        }
+        let r = &design.requirements;
+        Ok(Basis {
+            ports: design.ports.clone(),
+            radius_m: design.airframe.outer_radius_m(),
+            states,
+            inputs: spec.inputs(),
+            discharge: design.ports.iter().map(discharge_of).collect(),
+            set_pressure_gauge_pa: design.feed.regulator.set_pressure_gauge_pa,
+            accel_rad_s2: [r.roll_accel_rad_s2, r.pitch_accel_rad_s2, r.yaw_accel_rad_s2],
+            roll_disturbance_n_m: r.roll_disturbance_n_m,
+            motor_thrust_n: r.motor_thrust_n,
+            misalignment_rad: r.thrust_misalignment_rad,
+            nozzle_station_m: design.motor.fore_station_m + design.motor.length_m,
+            delays_s: [
+                design.feed.valve.opening_delay_s,
+                design.feed.valve.closing_delay_s,
+            ],
+        })
+    }
+
+    /// Port names in layout order.
+    pub fn port_names(&self) -> Vec<String> {
+        self.ports.iter().map(|p| p.name.clone()).collect()
+    }
+
+    /// The deviations of sample `index` under `seed`: one ChaCha8 stream per
+    /// sample, so a sample does not depend on how many threads drew the others.
+    pub fn draw(&self, seed: u64, index: u64) -> Vec<f64> {
+        let mut rng = ChaCha8Rng::seed_from_u64(seed);
+        rng.set_stream(index);
+        self.inputs.iter().map(|(_, s)| s.draw(&mut rng)).collect()
+    }
+
+    /// Apply deviations to `ports` (the design's, or an optimiser's candidate).
+    pub fn apply(&self, ports: &[Port], dev: &[f64], out: &mut Applied) {
+        out.ports.clear();
+        out.ports.extend_from_slice(ports);
+        out.ratio.clear();
+        out.ratio.resize(ports.len(), [1.0; 3]);
+        out.set_ratio = 1.0;
+        out.cg_shift_m = 0.0;
+        out.mass = 0.0;
+        out.ixx = 0.0;
+        out.iyy = 0.0;
+        out.misalignment_rad = 0.0;
+        out.delays_s = [0.0; 2];
+        for (&(input, _), &d) in self.inputs.iter().zip(dev) {
+            match input {
+                Input::Station(i) => out.ports[i].station_m += d,
+                Input::Clock(i) => out.ports[i].clock_rad += d,
+                Input::TangentialCant(i) => out.ports[i].tangential_cant_rad += d,
+                Input::AxialCant(i) => out.ports[i].axial_cant_rad += d,
+                Input::Hole(i) => {
+                    out.ratio[i][0] = 1.0 + d / ports[i].nozzle.hole_diameter_m().max(1e-9)
+                }
+                Input::DischargeCoefficient(i) => out.ratio[i][1] = 1.0 + d / self.discharge[i],
+                Input::ValveCv(i) => out.ratio[i][2] = 1.0 + d,
+                Input::SetPressure => out.set_ratio = 1.0 + d / self.set_pressure_gauge_pa,
+                Input::OpeningDelay => out.delays_s[0] = d,
+                Input::ClosingDelay => out.delays_s[1] = d,
+                Input::Mass => out.mass = d,
+                Input::CgStation => out.cg_shift_m = d,
+                Input::Ixx => out.ixx = d,
+                Input::Iyy => out.iyy = d,
+                Input::Misalignment => out.misalignment_rad = d,
+            }
+        }
+    }
+
+    /// Thrust of port i at state k for the applied deviations, given its nominal thrust.
+    pub fn thrust(&self, k: usize, i: usize, nominal_n: f64, a: &Applied) -> f64 {
+        let e = &self.states[k].exponents[i];
+        // A ratio at or below zero (far tail of a normal spread) means no hole:
+        // floor it so the power law gives practically zero thrust.
+        let f = |r: f64, e: f64| r.max(1e-6).powf(e);
+        nominal_n
+            * f(a.ratio[i][0], e[0])
+            * f(a.ratio[i][1], e[1])
+            * f(a.ratio[i][2], e[2])
+            * f(a.set_ratio, e[3])
+    }
+
+    /// Torque required about roll, pitch and yaw at state k, N·m.
+    pub fn required(&self, k: usize, a: &Applied) -> [f64; 3] {
+        let s = &self.states[k];
+        let m = 1.0 + a.mass;
+        let i = [
+            s.inertia[0] * m * (1.0 + a.ixx),
+            s.inertia[1] * m * (1.0 + a.iyy),
+            s.inertia[2] * m * (1.0 + a.iyy),
+        ];
+        let mis = if s.burning {
+            let cg_station = -s.cg.x + a.cg_shift_m;
+            self.motor_thrust_n
+                * (self.misalignment_rad + a.misalignment_rad).abs().sin()
+                * (self.nozzle_station_m - cg_station).abs()
+        } else {
+            0.0
+        };
+        [
+            i[0] * self.accel_rad_s2[0] + self.roll_disturbance_n_m,
+            i[1] * self.accel_rad_s2[1] + mis,
+            i[2] * self.accel_rad_s2[2] + mis,
+        ]
+    }
+
+    /// Forces and torques (about the shifted CG) of every port at state k,
+    /// written into `a.force` and `a.torque`.
+    pub fn wrenches(&self, k: usize, nominal_thrust_n: &[f64], a: &mut Applied) {
+        let s = &self.states[k];
+        let cg = s.cg - Vector3::x() * a.cg_shift_m;
+        a.force.clear();
+        a.torque.clear();
+        for i in 0..a.ports.len() {
+            let t = self.thrust(k, i, nominal_thrust_n[i], a);
+            let p = &a.ports[i];
+            let f = p.thrust_direction() * t;
+            a.force.push(f);
+            a.torque.push((p.position(self.radius_m) - cg).cross(&f));
+        }
+    }
+
+    /// Ray limits along +roll, +pitch, +yaw and −roll, −pitch, −yaw of the
+    /// torques in `a.torque`, N·m.
+    pub fn limits(a: &Applied) -> ([f64; 3], [f64; 3]) {
+        let mut pos = [0.0; 3];
+        let mut neg = [0.0; 3];
+        for k in 0..3 {
+            let mut e = Vector3::zeros();
+            e[k] = 1.0;
+            pos[k] = ray_limit(&a.torque, &e);
+            neg[k] = ray_limit(&a.torque, &(-e));
+        }
+        (pos, neg)
+    }
+
+    /// Worst margin over states, axes and senses of `ports` with per-state nominal
+    /// thrusts `thrust_n` under deviations `dev` (axes with no requirement skipped;
+    /// infinite when nothing is required anywhere).
+    pub fn worst_margin(
+        &self,
+        ports: &[Port],
+        thrust_n: &[Vec<f64>],
+        dev: &[f64],
+        a: &mut Applied,
+    ) -> f64 {
+        self.apply(ports, dev, a);
+        let mut worst = f64::INFINITY;
+        for k in 0..self.states.len() {
+            self.wrenches(k, &thrust_n[k], a);
+            let req = self.required(k, a);
+            for (axis, &r) in req.iter().enumerate() {
+                if r > 0.0 {
+                    let mut e = Vector3::zeros();
+                    e[axis] = 1.0;
+                    let t = ray_limit(&a.torque, &e).min(ray_limit(&a.torque, &(-e)));
+                    worst = worst.min(t / r);
+                }
+            }
+        }
+        worst
+    }
+
+    /// Nominal per-state thrusts.
+    pub fn nominal_thrusts(&self) -> Vec<Vec<f64>> {
+        self.states.iter().map(|s| s.thrust_n.clone()).collect()
+    }
+}
+
+/// Working storage for one as-built vehicle (reused between samples).
+#[derive(Debug, Clone, Default)]
+pub struct Applied {
+    /// Ports as built.
+    pub ports: Vec<Port>,
+    /// Per port: ratios of hole diameter, discharge coefficient and valve Cv to nominal.
+    pub ratio: Vec<[f64; 3]>,
+    /// Set pressure over nominal (gauge).
+    pub set_ratio: f64,
+    /// CG moved aft by this much, m.
+    pub cg_shift_m: f64,
+    /// Relative mass error.
+    pub mass: f64,
+    /// Relative roll-inertia error.
+    pub ixx: f64,
+    /// Relative pitch/yaw-inertia error.
+    pub iyy: f64,
+    /// Misalignment added to the nominal, rad.
+    pub misalignment_rad: f64,
+    /// Valve delay errors (opening, closing), s.
+    pub delays_s: [f64; 2],
+    /// Force of each port at the state last evaluated, N.
+    pub force: Vec<Vector3<f64>>,
+    /// Torque of each port about the CG at that state, N·m.
+    pub torque: Vec<Vector3<f64>>,
+}

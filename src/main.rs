@@ -146,8 +146,12 @@ fn run(cli: Cli) -> Result<()> {
             let outcome = cli::tolerance::run(&layout, samples as usize, seed)?;
             print!("{}", cli::tolerance::render(&outcome, json)?);
             if let Some(dir) = out {
-                let files = portwright::asbuilt::plots::files(&outcome.design, &outcome.report, &outcome.run)
-                    .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+                let files = portwright::asbuilt::plots::files(
+                    &outcome.design,
+                    &outcome.report,
+                    &outcome.run,
+                )
+                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
                 for f in &files {
                     let path = dir.join(&f.name);
                     write_atomic(&path, &f.bytes, &[&layout], false)?;

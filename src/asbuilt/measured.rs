@@ -275,8 +275,8 @@ pub fn compare(
     for (d, b) in drawn.states.iter().zip(&built.states) {
         for k in 0..3 {
             let (ad, ab) = (&d.authority[k], &b.authority[k]);
-            let margin = (ad.required_n_m > 0.0 && ab.required_n_m > 0.0)
-                .then_some([ad.margin, ab.margin]);
+            let margin =
+                (ad.required_n_m > 0.0 && ab.required_n_m > 0.0).then_some([ad.margin, ab.margin]);
             axes.push(AxisComparison {
                 state: d.name.clone(),
                 axis: ad.axis,
@@ -352,7 +352,10 @@ pub fn render_text(m: &MeasuredReport) -> String {
     );
     for a in &m.axes {
         let change = if a.authority_n_m[0] > 0.0 {
-            format!("{:+.1} %", z((a.authority_n_m[1] / a.authority_n_m[0] - 1.0) * 100.0))
+            format!(
+                "{:+.1} %",
+                z((a.authority_n_m[1] / a.authority_n_m[0] - 1.0) * 100.0)
+            )
         } else {
             "none as drawn".to_string()
         };

@@ -40,3 +40,6 @@ pub enum AsBuiltError {
     #[error("{0}")]
     Setting(String),
 }
+
+#[cfg(test)]
+mod tests;

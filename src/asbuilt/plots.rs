@@ -31,10 +31,13 @@ fn esc(t: &str) -> String {
 /// The margin shown in the variance-share plot: the lowest margin as drawn
 /// (the first in report order on a tie).
 pub fn limiting(report: &ToleranceReport) -> Option<&super::sensitivity::MarginSensitivity> {
-    report
-        .sensitivities
-        .iter()
-        .reduce(|a, b| if b.nominal_margin < a.nominal_margin { b } else { a })
+    report.sensitivities.iter().reduce(|a, b| {
+        if b.nominal_margin < a.nominal_margin {
+            b
+        } else {
+            a
+        }
+    })
 }
 
 /// Horizontal bars of each input's share of the limiting margin's first-order variance.
@@ -96,7 +99,11 @@ pub fn variance_shares_svg(report: &ToleranceReport) -> Option<String> {
 
 /// Histograms of the three axes' margins at flight state `k`, with margin 1 and
 /// the margin as drawn marked. `None` when nothing is required at that state.
-pub fn margin_histograms_svg(report: &ToleranceReport, run: &SpreadRun, k: usize) -> Option<String> {
+pub fn margin_histograms_svg(
+    report: &ToleranceReport,
+    run: &SpreadRun,
+    k: usize,
+) -> Option<String> {
     let state = &report.states.get(k)?.name;
     let axes: Vec<(usize, Vec<f64>)> = (0..3)
         .map(|a| {
@@ -126,9 +133,21 @@ pub fn margin_histograms_svg(report: &ToleranceReport, run: &SpreadRun, k: usize
     );
     for (p, (a, values)) in axes.iter().enumerate() {
         let nominal = run.nominal.states[k].margin(*a).unwrap_or(1.0);
-        let lo = values.iter().copied().fold(f64::INFINITY, f64::min).min(nominal);
-        let hi = values.iter().copied().fold(f64::NEG_INFINITY, f64::max).max(nominal);
-        let (lo, hi) = if hi > lo { (lo, hi) } else { (lo - 0.05, hi + 0.05) };
+        let lo = values
+            .iter()
+            .copied()
+            .fold(f64::INFINITY, f64::min)
+            .min(nominal);
+        let hi = values
+            .iter()
+            .copied()
+            .fold(f64::NEG_INFINITY, f64::max)
+            .max(nominal);
+        let (lo, hi) = if hi > lo {
+            (lo, hi)
+        } else {
+            (lo - 0.05, hi + 0.05)
+        };
         let mut counts = [0usize; BINS];
         for v in values {
             let b = (((v - lo) / (hi - lo)) * BINS as f64).floor() as usize;
@@ -187,7 +206,8 @@ pub fn plots(report: &ToleranceReport, run: &SpreadRun) -> Vec<(String, String, 
     if let Some(svg) = variance_shares_svg(report) {
         out.push((
             "tolerance-shares".to_string(),
-            "Which tolerance matters: shares of the limiting margin's first-order variance".to_string(),
+            "Which tolerance matters: shares of the limiting margin's first-order variance"
+                .to_string(),
             svg,
         ));
     }
@@ -260,7 +280,10 @@ pub fn html_sections(report: &ToleranceReport, run: &SpreadRun) -> Vec<Section> 
         for a in &s.axes {
             let (m, p) = match (&a.margin, a.probability_margin_below_one) {
                 (Some(m), Some(p)) => (
-                    format!("{:.2} / {:.2} / {:.2} / {:.2} / {:.2}", m.p1, m.p5, m.p50, m.p95, m.p99),
+                    format!(
+                        "{:.2} / {:.2} / {:.2} / {:.2} / {:.2}",
+                        m.p1, m.p5, m.p50, m.p95, m.p99
+                    ),
                     pct(p),
                 ),
                 _ => ("no requirement".to_string(), "—".to_string()),
@@ -284,7 +307,10 @@ pub fn html_sections(report: &ToleranceReport, run: &SpreadRun) -> Vec<Section> 
             "on/off table".to_string(),
             format!("{} rows checked", s.onoff.rows_checked),
             format!("{} fail on average", pct(s.onoff.mean_share_failing)),
-            format!("any fails on {} of vehicles", pct(s.onoff.probability_any_failing)),
+            format!(
+                "any fails on {} of vehicles",
+                pct(s.onoff.probability_any_failing)
+            ),
             String::new(),
         ]);
     }
@@ -349,9 +375,14 @@ pub fn html_sections(report: &ToleranceReport, run: &SpreadRun) -> Vec<Section> 
                         vec![
                             a.state.clone(),
                             a.axis.to_string(),
-                            format!("{:.2} → {:.2}", a.authority_n_m[0] * 1e3, a.authority_n_m[1] * 1e3),
-                            a.margin
-                                .map_or("no requirement".to_string(), |[d, b]| format!("{d:.2} → {b:.2}")),
+                            format!(
+                                "{:.2} → {:.2}",
+                                a.authority_n_m[0] * 1e3,
+                                a.authority_n_m[1] * 1e3
+                            ),
+                            a.margin.map_or("no requirement".to_string(), |[d, b]| {
+                                format!("{d:.2} → {b:.2}")
+                            }),
                         ]
                     })
                     .collect(),

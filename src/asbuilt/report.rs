@@ -205,9 +205,8 @@ pub fn sample(
     let columns = sampling::nominal_columns(&basis);
     let mut checks = Vec::new();
     for (k, st) in analysis.states.iter().enumerate() {
-        let tables =
-            crate::export::bundle::state_tables(design, st, &settings.onoff, None)
-                .map_err(AsBuiltError::Model)?;
+        let tables = crate::export::bundle::state_tables(design, st, &settings.onoff, None)
+            .map_err(AsBuiltError::Model)?;
         checks.push(OnOffCheck::new(
             &tables,
             &columns[k],
@@ -265,9 +264,7 @@ fn input_rows(basis: &Basis) -> Vec<InputRow> {
                 | Input::AxialCant(_)
                 | Input::Misalignment => s.describe(180.0 / std::f64::consts::PI, "deg"),
                 Input::DischargeCoefficient(_) => s.describe(1.0, "(absolute)"),
-                Input::ValveCv(_) | Input::Mass | Input::Ixx | Input::Iyy => {
-                    s.describe(100.0, "%")
-                }
+                Input::ValveCv(_) | Input::Mass | Input::Ixx | Input::Iyy => s.describe(100.0, "%"),
                 Input::SetPressure => s.describe(1e-5, "bar"),
                 Input::OpeningDelay | Input::ClosingDelay => s.describe(1e3, "ms"),
             };
@@ -283,7 +280,7 @@ fn input_rows(basis: &Basis) -> Vec<InputRow> {
 pub const METHOD: [&str; 6] = [
     "each sample is one as-built vehicle: every input drawn independently from its spread (uniform ± or normal σ), one ChaCha8 random stream per sample",
     "port geometry is exact: each hole is re-placed and its force and torque about the shifted CG recomputed; authority is the exact ray limit of the attainable torque set along ±roll, ±pitch, ±yaw",
-    "port thrust follows T₀·(d/d₀)^e_d·(Cd/Cd₀)^e_c·(Cv/Cv₀)^e_v·(p_set/p_set0)^e_p, the exponents being the logarithmic derivatives of the full regulator–valve–nozzle model at each state (central differences of ±1 %)",
+    "port thrust: ln T is a quadratic (with cross terms) in the logarithms of hole diameter, discharge coefficient, valve Cv and set pressure over nominal, fitted through 15 full regulator–valve–nozzle solves per state (nominal, ±5 % each, +5 % each pair)",
     "a mass error scales both inertias with it; the inertia tolerances come on top; the CG shift is the same at every state",
     "on/off rows keep the thresholds of the table as drawn (what the firmware expects); only rows that met them as drawn are checked",
     "sensitivities: central differences (step 1 % of each input's standard deviation) of each axis's weaker-sense margin; variance shares from first-order propagation",
@@ -307,8 +304,11 @@ pub fn summarise(design: &Design, run: &SpreadRun, settings: &SpreadSettings) ->
                 .iter()
                 .map(|s| s.states[k].positive_n_m[axis].min(s.states[k].negative_n_m[axis]))
                 .collect();
-            let margins: Vec<Option<f64>> =
-                run.samples.iter().map(|s| s.states[k].margin(axis)).collect();
+            let margins: Vec<Option<f64>> = run
+                .samples
+                .iter()
+                .map(|s| s.states[k].margin(axis))
+                .collect();
             let has_req = nom.required_n_m[axis] > 0.0;
             let m: Vec<f64> = margins.iter().flatten().copied().collect();
             for (i, v) in margins.iter().enumerate() {
@@ -359,12 +359,11 @@ pub fn summarise(design: &Design, run: &SpreadRun, settings: &SpreadSettings) ->
                     .map(|a| OffAxis {
                         axis: AXES[a],
                         nominal_n_m: t[a],
-                        magnitude_n_m: pct(
-                            &run.samples
-                                .iter()
-                                .map(|s| s.states[k].port_torque_n_m[i][a].abs())
-                                .collect::<Vec<_>>(),
-                        ),
+                        magnitude_n_m: pct(&run
+                            .samples
+                            .iter()
+                            .map(|s| s.states[k].port_torque_n_m[i][a].abs())
+                            .collect::<Vec<_>>()),
                     })
                     .collect();
                 PortCoupling {
@@ -372,12 +371,11 @@ pub fn summarise(design: &Design, run: &SpreadRun, settings: &SpreadSettings) ->
                     main_axis: AXES[main],
                     off_axis,
                     nominal_side_force_n: nom.port_side_force_n[i],
-                    side_force_n: pct(
-                        &run.samples
-                            .iter()
-                            .map(|s| s.states[k].port_side_force_n[i])
-                            .collect::<Vec<_>>(),
-                    ),
+                    side_force_n: pct(&run
+                        .samples
+                        .iter()
+                        .map(|s| s.states[k].port_side_force_n[i])
+                        .collect::<Vec<_>>()),
                 }
             })
             .collect();
@@ -403,17 +401,20 @@ pub fn summarise(design: &Design, run: &SpreadRun, settings: &SpreadSettings) ->
                             .collect(),
                         share_failing: share(fails, n),
                         nominal_side_force_n: nom.row_side_force_n[r],
-                        side_force_n: pct(
-                            &run.samples
-                                .iter()
-                                .map(|s| s.states[k].row_side_force_n[r])
-                                .collect::<Vec<_>>(),
-                        ),
+                        side_force_n: pct(&run
+                            .samples
+                            .iter()
+                            .map(|s| s.states[k].row_side_force_n[r])
+                            .collect::<Vec<_>>()),
                     },
                 )
             })
             .collect();
-        rows.sort_by(|a, b| b.1.share_failing.total_cmp(&a.1.share_failing).then(a.0.cmp(&b.0)));
+        rows.sort_by(|a, b| {
+            b.1.share_failing
+                .total_cmp(&a.1.share_failing)
+                .then(a.0.cmp(&b.0))
+        });
         let failing: Vec<f64> = run
             .samples
             .iter()
@@ -446,13 +447,17 @@ pub fn summarise(design: &Design, run: &SpreadRun, settings: &SpreadSettings) ->
         .enumerate()
         .map(|(i, name)| ImpulseBit {
             port: name.clone(),
-            nominal_n_s: run.nominal.minimum_impulse_bit_n_s.get(i).copied().unwrap_or(0.0),
-            spread_n_s: pct(
-                &run.samples
-                    .iter()
-                    .map(|s| s.minimum_impulse_bit_n_s.get(i).copied().unwrap_or(0.0))
-                    .collect::<Vec<_>>(),
-            ),
+            nominal_n_s: run
+                .nominal
+                .minimum_impulse_bit_n_s
+                .get(i)
+                .copied()
+                .unwrap_or(0.0),
+            spread_n_s: pct(&run
+                .samples
+                .iter()
+                .map(|s| s.minimum_impulse_bit_n_s.get(i).copied().unwrap_or(0.0))
+                .collect::<Vec<_>>()),
         })
         .collect();
     ToleranceReport {
@@ -539,7 +544,8 @@ pub fn render_text(r: &ToleranceReport) -> String {
             "  axis   authority as drawn (mN m)   authority p1 p5 p50 p95 p99 (mN m)     margin as drawn   margin p1 p5 p50 p95 p99       P(margin < 1)"
         );
         for a in &s.axes {
-            let (mn, mp, pb) = match (&a.nominal_margin, &a.margin, a.probability_margin_below_one) {
+            let (mn, mp, pb) = match (&a.nominal_margin, &a.margin, a.probability_margin_below_one)
+            {
                 (Some(n), Some(m), Some(p)) => (format!("{n:.2}"), p5(m, 1.0, 2), percent(p)),
                 _ => (
                     "no requirement".to_string(),
@@ -614,7 +620,10 @@ pub fn render_text(r: &ToleranceReport) -> String {
             );
         }
     }
-    let _ = writeln!(o, "\nMinimum impulse bit at the first state (mN s): as drawn, then p1 p5 p50 p95 p99");
+    let _ = writeln!(
+        o,
+        "\nMinimum impulse bit at the first state (mN s): as drawn, then p1 p5 p50 p95 p99"
+    );
     for b in &r.minimum_impulse_bits {
         let _ = writeln!(
             o,
@@ -634,7 +643,12 @@ pub fn render_text(r: &ToleranceReport) -> String {
             "  {} {} ({} sense): margin {:.2} as drawn, first-order σ {:.3}",
             m.state, m.axis, m.sense, m.nominal_margin, m.first_order_sigma
         );
-        for e in m.entries.iter().filter(|e| e.variance_share > 0.0).take(SHOWN_ENTRIES) {
+        for e in m
+            .entries
+            .iter()
+            .filter(|e| e.variance_share > 0.0)
+            .take(SHOWN_ENTRIES)
+        {
             let _ = writeln!(
                 o,
                 "    {:>6}  {:<40} σ of margin {:.4}{}",

@@ -110,8 +110,7 @@ pub fn sensitivities(basis: &Basis) -> Vec<MarginSensitivity> {
                     let bwd = (m0 - down) / h;
                     let big = fwd.abs().max(bwd.abs());
                     // Changes below 1e-12 of the margin are rounding, not a corner.
-                    let corner =
-                        big * h > 1e-12 * m0.abs() && (fwd - bwd).abs() > CORNER * big;
+                    let corner = big * h > 1e-12 * m0.abs() && (fwd - bwd).abs() > CORNER * big;
                     SensitivityEntry {
                         input: j,
                         label: basis.inputs[j].0.label(&names),

@@ -34,8 +34,8 @@ pub fn run(path: &Path, samples: usize, seed: u64) -> Result<Outcome> {
         seed,
         ..SpreadSettings::default()
     };
-    let (mut report, run) =
-        tolerance_report(&design, &analysis, &spec, &settings).map_err(|e| anyhow!("{name}: {e}"))?;
+    let (mut report, run) = tolerance_report(&design, &analysis, &spec, &settings)
+        .map_err(|e| anyhow!("{name}: {e}"))?;
     if !sections.measured.is_empty() {
         let drawn = layout::parse_str_as_drawn(&text, &name)?;
         let drawn_analysis = portwright::analysis::analyze(&drawn)

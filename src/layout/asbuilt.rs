@@ -140,9 +140,13 @@ impl Reader<'_> {
                 let (name, example) = k.describe();
                 format!("{name} such as \"±{example}\"")
             }
-            Allowed::NumberOrPercent => "a number or a percentage such as \"±0.02\" or \"±3 %\"".to_string(),
+            Allowed::NumberOrPercent => {
+                "a number or a percentage such as \"±0.02\" or \"±3 %\"".to_string()
+            }
             Allowed::Percent => "a percentage such as \"±2 %\"".to_string(),
-            Allowed::PressureOrPercent => "a pressure difference or a percentage such as \"±3 psi\" or \"±2 %\"".to_string(),
+            Allowed::PressureOrPercent => {
+                "a pressure difference or a percentage such as \"±3 psi\" or \"±2 %\"".to_string()
+            }
         };
         let bad = |r: &mut Self, why: &str| {
             r.problem(
@@ -158,7 +162,10 @@ impl Reader<'_> {
             (false, r)
         } else if let Some(r) = text.strip_prefix("+/-").or_else(|| text.strip_prefix("+-")) {
             (false, r)
-        } else if let Some(r) = text.strip_prefix("sigma").or_else(|| text.strip_prefix('σ')) {
+        } else if let Some(r) = text
+            .strip_prefix("sigma")
+            .or_else(|| text.strip_prefix('σ'))
+        {
             (true, r)
         } else {
             return bad(self, "no spread given");
@@ -212,12 +219,28 @@ impl Reader<'_> {
     fn port_fields(&mut self, f: &PortFields, section: &str) -> [Option<Written>; 7] {
         let field = |n: &str| format!("{section}.{n}");
         [
-            self.spread(&f.station, &field("station"), Allowed::Quantity(Kind::Length)),
+            self.spread(
+                &f.station,
+                &field("station"),
+                Allowed::Quantity(Kind::Length),
+            ),
             self.spread(&f.clock, &field("clock"), Allowed::Quantity(Kind::Angle)),
-            self.spread(&f.tangential_cant, &field("tangential_cant"), Allowed::Quantity(Kind::Angle)),
-            self.spread(&f.axial_cant, &field("axial_cant"), Allowed::Quantity(Kind::Angle)),
+            self.spread(
+                &f.tangential_cant,
+                &field("tangential_cant"),
+                Allowed::Quantity(Kind::Angle),
+            ),
+            self.spread(
+                &f.axial_cant,
+                &field("axial_cant"),
+                Allowed::Quantity(Kind::Angle),
+            ),
             self.spread(&f.hole, &field("hole"), Allowed::Quantity(Kind::Length)),
-            self.spread(&f.discharge_coefficient, &field("discharge_coefficient"), Allowed::NumberOrPercent),
+            self.spread(
+                &f.discharge_coefficient,
+                &field("discharge_coefficient"),
+                Allowed::NumberOrPercent,
+            ),
             self.spread(&f.valve_cv, &field("valve_cv"), Allowed::NumberOrPercent),
         ]
     }
@@ -416,15 +439,30 @@ pub fn read(text: &str, design: &Design) -> Result<AsBuiltSections, Vec<Diagnost
             continue;
         };
         if seen[i] {
-            r.problem(m.port.span(), &f("port"), format!("port `{}` is measured twice", m.port.get_ref()));
+            r.problem(
+                m.port.span(),
+                &f("port"),
+                format!("port `{}` is measured twice", m.port.get_ref()),
+            );
         }
         seen[i] = true;
-        let cd_nozzle = matches!(design.ports[i].nozzle, NozzleSpec::ConvergingDiverging { .. });
+        let cd_nozzle = matches!(
+            design.ports[i].nozzle,
+            NozzleSpec::ConvergingDiverging { .. }
+        );
         if let (true, Some(q)) = (cd_nozzle, &m.hole) {
-            r.problem(q.span(), &f("hole"), "this port has a converging–diverging nozzle: give the measured `throat` instead");
+            r.problem(
+                q.span(),
+                &f("hole"),
+                "this port has a converging–diverging nozzle: give the measured `throat` instead",
+            );
         }
         if let (false, Some(q)) = (cd_nozzle, &m.throat) {
-            r.problem(q.span(), &f("throat"), "this port is a plain hole: give the measured `hole` instead");
+            r.problem(
+                q.span(),
+                &f("throat"),
+                "this port is a plain hole: give the measured `hole` instead",
+            );
         }
         let hole_m = if cd_nozzle {
             r.positive(&m.throat, &f("throat"), Kind::Length)
@@ -437,7 +475,11 @@ pub fn read(text: &str, design: &Design) -> Result<AsBuiltSections, Vec<Diagnost
             Some(q) => match units::parse_pressure(q.get_ref()) {
                 Ok(p) if p.reference == units::PressureReference::Absolute && p.pa > 0.0 => p.pa,
                 Ok(_) => {
-                    r.problem(q.span(), &f("ambient"), "expected an absolute pressure above zero, such as \"101.3 kPa\"");
+                    r.problem(
+                        q.span(),
+                        &f("ambient"),
+                        "expected an absolute pressure above zero, such as \"101.3 kPa\"",
+                    );
                     STANDARD_ATMOSPHERE_PA
                 }
                 Err(e) => {
@@ -452,7 +494,11 @@ pub fn read(text: &str, design: &Design) -> Result<AsBuiltSections, Vec<Diagnost
                 Ok(p) => {
                     let abs = p.absolute_pa(ambient_pa);
                     if abs <= ambient_pa {
-                        r.problem(q.span(), &f("supply_pressure"), "expected a supply pressure above the stand's ambient");
+                        r.problem(
+                            q.span(),
+                            &f("supply_pressure"),
+                            "expected a supply pressure above the stand's ambient",
+                        );
                     }
                     Some(abs)
                 }
@@ -478,7 +524,11 @@ pub fn read(text: &str, design: &Design) -> Result<AsBuiltSections, Vec<Diagnost
             }
             (false, Some(_)) => {
                 if let Some(q) = &m.supply_pressure {
-                    r.problem(q.span(), &f("supply_pressure"), "a supply pressure without a measured `thrust` or `mass_flow` says nothing");
+                    r.problem(
+                        q.span(),
+                        &f("supply_pressure"),
+                        "a supply pressure without a measured `thrust` or `mass_flow` says nothing",
+                    );
                 }
                 None
             }

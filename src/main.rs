@@ -123,11 +123,35 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("analysing: mass properties, gas, port flows, envelopes");
             let analysis = portwright::analysis::analyze(&design)
                 .with_context(|| format!("{}: analysis failed", layout.display()))?;
+            let spread = cli::tolerance::for_run(&layout)?;
+            let (sections, extra) = match &spread {
+                Some(o) => {
+                    eprintln!(
+                        "sampled {} as-built vehicles from [tolerances]",
+                        o.report.samples
+                    );
+                    (
+                        portwright::asbuilt::plots::html_sections(&o.report, &o.run),
+                        portwright::asbuilt::plots::files(&o.design, &o.report, &o.run)
+                            .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?,
+                    )
+                }
+                None => (Vec::new(), Vec::new()),
+            };
             eprintln!("building tables, meshes, template, plots and the report");
-            let files =
-                portwright::export::bundle::bundle(&design, &analysis, &template_settings(paper))
-                    .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+            let files = portwright::export::bundle::bundle_with(
+                &design,
+                &analysis,
+                &template_settings(paper),
+                &sections,
+                extra,
+            )
+            .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
             print!("{}", portwright::report::render_text(&analysis));
+            if let Some(o) = &spread {
+                println!();
+                print!("{}", portwright::asbuilt::report::render_summary(&o.report));
+            }
             println!();
             for f in &files {
                 let path = out.join(&f.name);

@@ -21,6 +21,7 @@ pub mod onoff;
 pub mod plots;
 
 pub mod report;
+pub mod robust;
 
 pub mod sampling;
 pub mod sensitivity;

@@ -677,3 +677,49 @@ pub fn render_text(r: &ToleranceReport) -> String {
     }
     super::stats::without_signed_zeros(&o)
 }
+
+/// A few lines for `run`: the chance of a margin below 1, the weakest margin's
+/// spread and the tolerance that matters most for it.
+pub fn render_summary(r: &ToleranceReport) -> String {
+    let mut o = String::new();
+    let _ = writeln!(
+        o,
+        "As built ({} sampled vehicles, seed {}): chance that any margin falls below 1: {}",
+        r.samples,
+        r.seed,
+        percent(r.probability_any_margin_below_one)
+    );
+    for s in &r.states {
+        let weakest = s
+            .axes
+            .iter()
+            .filter_map(|a| a.margin.map(|m| (a, m)))
+            .reduce(|x, y| if y.1.p5 < x.1.p5 { y } else { x });
+        if let Some((a, m)) = weakest {
+            let _ = writeln!(
+                o,
+                "  {}: weakest {} margin, p5 {:.2}, p50 {:.2} (as drawn {:.2}); on/off rows failing on average {}",
+                s.name,
+                a.axis,
+                m.p5,
+                m.p50,
+                a.nominal_margin.unwrap_or(0.0),
+                percent(s.onoff.mean_share_failing)
+            );
+        }
+    }
+    if let Some(m) = super::plots::limiting(r) {
+        if let Some(e) = m.entries.first().filter(|e| e.variance_share > 0.0) {
+            let _ = writeln!(
+                o,
+                "  the {} margin at {} depends most on {} ({} of its first-order variance)",
+                m.axis,
+                m.state,
+                e.label,
+                percent(e.variance_share)
+            );
+        }
+    }
+    let _ = writeln!(o, "  full report: tolerance.txt and tolerance.json");
+    super::stats::without_signed_zeros(&o)
+}

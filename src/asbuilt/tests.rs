@@ -385,3 +385,34 @@ fn a_stand_test_calibrates_the_discharge_coefficient() {
     let e = measured::apply(&d, &[m]).unwrap_err().to_string();
     assert!(e.contains("pitch-pos"), "{e}");
 }
+
+#[test]
+fn one_pass_axis_limits_equal_six_ray_limits() {
+    // Same arithmetic as `analysis::score::ray_limit` per direction (checked
+    // there against the zonotope's facet list); equal to rounding, 1e-12 relative.
+    use crate::analysis::score::ray_limit;
+    use nalgebra::Vector3;
+    let (d, a, spec) = heron();
+    let basis = Basis::new(&d, &a, &spec).unwrap();
+    let mut ap = Applied::default();
+    for s in 0..50 {
+        basis.apply(&basis.ports, &basis.draw(8, s), &mut ap);
+        basis.wrenches(0, &basis.states[0].thrust_n, &mut ap);
+        let (pos, neg) = super::vehicle::axis_limits(&ap.torque);
+        for k in 0..3 {
+            let mut e = Vector3::zeros();
+            e[k] = 1.0;
+            let (p, n) = (ray_limit(&ap.torque, &e), ray_limit(&ap.torque, &(-e)));
+            assert!(
+                (pos[k] - p).abs() <= 1e-12 * p.abs(),
+                "{k}+: {} vs {p}",
+                pos[k]
+            );
+            assert!(
+                (neg[k] - n).abs() <= 1e-12 * n.abs(),
+                "{k}-: {} vs {n}",
+                neg[k]
+            );
+        }
+    }
+}

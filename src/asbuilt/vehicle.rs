@@ -19,7 +19,6 @@
 
 use super::spec::{Input, Spread, ToleranceSpec};
 use super::AsBuiltError;
-use crate::analysis::score::ray_limit;
 use crate::analysis::{feed, Analysis};
 use crate::model::{Design, MotorCondition, NozzleSpec, Port, ValveFlow};
 use nalgebra::Vector3;
@@ -90,6 +89,16 @@ fn discharge_of(p: &Port) -> f64 {
             discharge_coefficient,
             ..
         } => discharge_coefficient,
+    }
+}
+
+/// The diameter that sets the flow: the plain hole, or the throat.
+fn flow_diameter(p: &Port) -> f64 {
+    match p.nozzle {
+        NozzleSpec::Hole { diameter_m, .. } => diameter_m,
+        NozzleSpec::ConvergingDiverging {
+            throat_diameter_m, ..
+        } => throat_diameter_m,
     }
 }
 
@@ -298,8 +307,13 @@ impl Basis {
 
     /// Apply deviations to `ports` (the design's, or an optimiser's candidate).
     pub fn apply(&self, ports: &[Port], dev: &[f64], out: &mut Applied) {
-        out.ports.clear();
-        out.ports.extend_from_slice(ports);
+        if out.ports.len() == ports.len() {
+            // Reuses the names' storage: no allocation per sample.
+            out.ports.clone_from_slice(ports);
+        } else {
+            out.ports.clear();
+            out.ports.extend_from_slice(ports);
+        }
         out.ratio.clear();
         out.ratio.resize(ports.len(), [1.0; 3]);
         out.set_ratio = 1.0;
@@ -315,9 +329,7 @@ impl Basis {
                 Input::Clock(i) => out.ports[i].clock_rad += d,
                 Input::TangentialCant(i) => out.ports[i].tangential_cant_rad += d,
                 Input::AxialCant(i) => out.ports[i].axial_cant_rad += d,
-                Input::Hole(i) => {
-                    out.ratio[i][0] = 1.0 + d / ports[i].nozzle.hole_diameter_m().max(1e-9)
-                }
+                Input::Hole(i) => out.ratio[i][0] = 1.0 + d / flow_diameter(&ports[i]).max(1e-9),
                 Input::DischargeCoefficient(i) => out.ratio[i][1] = 1.0 + d / self.discharge[i],
                 Input::ValveCv(i) => out.ratio[i][2] = 1.0 + d,
                 Input::SetPressure => out.set_ratio = 1.0 + d / self.set_pressure_gauge_pa,
@@ -396,15 +408,7 @@ impl Basis {
     /// Ray limits along +roll, +pitch, +yaw and −roll, −pitch, −yaw of the
     /// torques in `a.torque`, N·m.
     pub fn limits(a: &Applied) -> ([f64; 3], [f64; 3]) {
-        let mut pos = [0.0; 3];
-        let mut neg = [0.0; 3];
-        for k in 0..3 {
-            let mut e = Vector3::zeros();
-            e[k] = 1.0;
-            pos[k] = ray_limit(&a.torque, &e);
-            neg[k] = ray_limit(&a.torque, &(-e));
-        }
-        (pos, neg)
+        axis_limits(&a.torque)
     }
 
     /// Worst margin over states, axes and senses of `ports` with per-state nominal
@@ -422,12 +426,10 @@ impl Basis {
         for k in 0..self.states.len() {
             self.wrenches(k, &thrust_n[k], a);
             let req = self.required(k, a);
+            let (pos, neg) = axis_limits(&a.torque);
             for (axis, &r) in req.iter().enumerate() {
                 if r > 0.0 {
-                    let mut e = Vector3::zeros();
-                    e[axis] = 1.0;
-                    let t = ray_limit(&a.torque, &e).min(ray_limit(&a.torque, &(-e)));
-                    worst = worst.min(t / r);
+                    worst = worst.min(pos[axis].min(neg[axis]) / r);
                 }
             }
         }
@@ -438,6 +440,53 @@ impl Basis {
     pub fn nominal_thrusts(&self) -> Vec<Vec<f64>> {
         self.states.iter().map(|s| s.thrust_n.clone()).collect()
     }
+}
+
+/// The six ray limits along ±roll, ±pitch, ±yaw of the zonotope of `columns`
+/// in one pass over generator pairs: the same facets, thresholds and result as
+/// six calls of `analysis::score::ray_limit`, which the tests compare, at a sixth of the cost.
+pub fn axis_limits(columns: &[Vector3<f64>]) -> ([f64; 3], [f64; 3]) {
+    let mut pos = [f64::INFINITY; 3];
+    let mut neg = [f64::INFINITY; 3];
+    let scale: f64 = columns.iter().map(|b| b.norm()).fold(0.0, f64::max);
+    if scale == 0.0 {
+        return ([0.0; 3], [0.0; 3]);
+    }
+    let eps = 1e-12 * scale * scale;
+    for i in 0..columns.len() {
+        for j in (i + 1)..columns.len() {
+            let n = columns[i].cross(&columns[j]);
+            if n.norm() <= eps {
+                continue;
+            }
+            let (mut hp, mut hn) = (0.0, 0.0);
+            for b in columns {
+                let d = n.dot(b);
+                if d > 0.0 {
+                    hp += d;
+                } else {
+                    hn -= d;
+                }
+            }
+            for k in 0..3 {
+                let ne = n[k];
+                if ne.abs() <= eps * 1e-3 {
+                    continue;
+                }
+                // The facet pair ±n bounds +e_k by h(n)/(n·e) when n·e > 0 (else
+                // h(−n)/(−n·e)), and −e_k by the other of the two.
+                if ne > 0.0 {
+                    pos[k] = pos[k].min(hp / ne);
+                    neg[k] = neg[k].min(hn / ne);
+                } else {
+                    pos[k] = pos[k].min(hn / -ne);
+                    neg[k] = neg[k].min(hp / -ne);
+                }
+            }
+        }
+    }
+    let fin = |v: f64| if v.is_finite() { v } else { 0.0 };
+    (pos.map(fin), neg.map(fin))
 }
 
 /// ln T − ln T₀ of one port as a quadratic in u = ln(ratio to nominal) of hole

@@ -51,6 +51,24 @@ pub fn run(path: &Path, samples: usize, seed: u64) -> Result<Outcome> {
     })
 }
 
+/// Samples `run` draws from a layout's tolerances, and its seed.
+pub const RUN_SAMPLES: usize = 2000;
+
+/// For `run`: the spread when the layout has a `[tolerances]` section.
+pub fn for_run(path: &Path) -> Result<Option<Outcome>> {
+    let name = path.display().to_string();
+    let text =
+        std::fs::read_to_string(path).with_context(|| format!("{name}: cannot read the layout"))?;
+    let design = layout::parse_str(&text, &name)?;
+    if layout::asbuilt_sections(&text, &name, &design)?
+        .tolerances
+        .is_none()
+    {
+        return Ok(None);
+    }
+    run(path, RUN_SAMPLES, 1).map(Some)
+}
+
 /// The text or JSON a run prints.
 pub fn render(o: &Outcome, json: bool) -> Result<String> {
     Ok(if json {
@@ -58,4 +76,33 @@ pub fn render(o: &Outcome, json: bool) -> Result<String> {
     } else {
         render_text(&o.report)
     })
+}
+
+/// For `optimize`: the sampled as-built vehicles behind `margin@pN`, when the
+/// objective asks for them (the layout must then have a `[tolerances]` section).
+/// The draws use the search's seed and stay fixed for the whole search.
+pub fn robust_margins(
+    score: &portwright::analysis::score::MarginScore,
+    text: &str,
+    source: &str,
+    design: &portwright::model::Design,
+    analysis: &portwright::analysis::Analysis,
+    seed: u64,
+) -> Result<Option<std::sync::Arc<dyn portwright::analysis::score::SampledMargins>>> {
+    if !score.needs_spread() {
+        return Ok(None);
+    }
+    let sections = layout::asbuilt_sections(text, source, design)?;
+    let Some(spec) = sections.tolerances else {
+        bail!("{source}: the objective margin@pN samples as-built vehicles from a [tolerances] section, and this layout has none (see the README)");
+    };
+    let r = portwright::asbuilt::robust::RobustMargins::new(
+        design,
+        analysis,
+        &spec,
+        portwright::asbuilt::robust::DEFAULT_SAMPLES,
+        seed,
+    )
+    .map_err(|e| anyhow!("{source}: {e}"))?;
+    Ok(Some(std::sync::Arc::new(r)))
 }

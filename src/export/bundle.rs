@@ -160,6 +160,17 @@ pub fn html_report(
     analysis: &Analysis,
     plots: &[NamedPlot],
 ) -> Result<String, String> {
+    html_report_with(design, analysis, plots, &[])
+}
+
+/// The HTML report with further sections (for example the as-built spread)
+/// placed before the findings.
+pub fn html_report_with(
+    design: &Design,
+    analysis: &Analysis,
+    plots: &[NamedPlot],
+    extra: &[Section],
+) -> Result<String, String> {
     let mut sections = Vec::new();
     let g = &analysis.gas;
     sections.push(Section {
@@ -260,6 +271,7 @@ pub fn html_report(
         heading: "Authority, thrust and gas".to_string(),
         blocks: overview,
     });
+    sections.extend(extra.iter().cloned());
     sections.push(Section {
         heading: "Findings".to_string(),
         blocks: vec![Block::List(analysis.findings.clone())],
@@ -316,6 +328,18 @@ pub fn bundle(
     design: &Design,
     analysis: &Analysis,
     template: &TemplateSettings,
+) -> Result<Vec<OutputFile>, String> {
+    bundle_with(design, analysis, template, &[], Vec::new())
+}
+
+/// Every output file for the layout, with further report sections (placed
+/// before the findings) and further files (written after the others).
+pub fn bundle_with(
+    design: &Design,
+    analysis: &Analysis,
+    template: &TemplateSettings,
+    extra_sections: &[Section],
+    extra_files: Vec<OutputFile>,
 ) -> Result<Vec<OutputFile>, String> {
     let mut files = Vec::new();
     let mut push = |name: &str, bytes: Vec<u8>| {
@@ -377,7 +401,8 @@ pub fn bundle(
     }
     push(
         "report.html",
-        html_report(design, analysis, &plots)?.into_bytes(),
+        html_report_with(design, analysis, &plots, extra_sections)?.into_bytes(),
     );
+    files.extend(extra_files);
     Ok(files)
 }

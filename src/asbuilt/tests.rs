@@ -416,3 +416,109 @@ fn one_pass_axis_limits_equal_six_ray_limits() {
         }
     }
 }
+
+/// Heron with a `[[measured]]` entry for every port: the drawn geometry (as a
+/// builder would write it, to six decimals), shifted aft by `station_shift_mm`,
+/// and the model's own stand thrust times `scale_thrust`.
+fn heron_measured(scale_thrust: f64, station_shift_mm: f64) -> String {
+    let (d, _, _) = heron();
+    let mut text = HERON.to_string();
+    let test = StandTest {
+        thrust_n: None,
+        mass_flow_kg_s: None,
+        supply_pressure_pa: 150.0 * 6894.757293168361 + 101_325.0,
+        ambient_pa: 101_325.0,
+    };
+    for (i, p) in d.ports.iter().enumerate() {
+        let (t, _) = measured::on_stand(&d, i, &test).unwrap();
+        let hole = match p.nozzle {
+            NozzleSpec::Hole { diameter_m, .. } => diameter_m,
+            NozzleSpec::ConvergingDiverging { .. } => unreachable!(),
+        };
+        text.push_str(&format!(
+            "\n[[measured]]\nport = \"{}\"\nstation = \"{:.6} mm\"\nclock = \"{:.6} deg\"\ntangential_cant = \"{:.6} deg\"\naxial_cant = \"{:.6} deg\"\nhole = \"{:.6} mm\"\nthrust = \"{:.12} N\"\nsupply_pressure = \"150 psig\"\n",
+            p.name,
+            p.station_m * 1e3 + station_shift_mm,
+            p.clock_rad.to_degrees(),
+            p.tangential_cant_rad.to_degrees(),
+            p.axial_cant_rad.to_degrees(),
+            hole * 1e3,
+            t * scale_thrust
+        ));
+    }
+    text
+}
+
+fn tables_of(design: &Design) -> Vec<String> {
+    let a = analyze(design).unwrap();
+    a.states
+        .iter()
+        .map(|st| {
+            let t = crate::export::bundle::state_tables(
+                design,
+                st,
+                &crate::allocation::OnOffOptions::default(),
+                Some(5),
+            )
+            .unwrap();
+            crate::export::firmware::render_c_header(&t).unwrap()
+        })
+        .collect()
+}
+
+#[test]
+fn measurements_equal_to_the_design_give_identical_tables() {
+    // The measured geometry is the drawn geometry and each measured thrust is the
+    // model's own stand thrust to 12 decimals: the discharge coefficients stay as
+    // drawn (within 1e-6) and every firmware table, every state, is the same text.
+    let (d, _, _) = heron();
+    let text = heron_measured(1.0, 0.0);
+    let built = crate::layout::parse_str(&text, "measured.toml").unwrap();
+    for (p, q) in d.ports.iter().zip(&built.ports) {
+        assert_eq!(p.nozzle, q.nozzle, "{}", p.name);
+    }
+    assert_eq!(tables_of(&d), tables_of(&built));
+}
+
+#[test]
+fn measured_ports_change_the_tables_and_the_authority() {
+    // 8 % less thrust on the stand than the model predicts, and every hole 2 mm
+    // aft: the calibrated coefficient falls, the tables differ, and the roll
+    // authority (roll ports fire alone about roll) falls by the thrust ratio
+    // within the small change the 2 mm shift makes to the arms (1 %).
+    let (d, a, _) = heron();
+    let text = heron_measured(0.92, 2.0);
+    let built = crate::layout::parse_str(&text, "measured.toml").unwrap();
+    let drawn = crate::layout::parse_str_as_drawn(&text, "measured.toml").unwrap();
+    assert_eq!(drawn.ports[0].station_m, d.ports[0].station_m);
+    assert!((built.ports[0].station_m - d.ports[0].station_m - 2e-3).abs() < 1e-12);
+    assert_ne!(tables_of(&d), tables_of(&built));
+    let b = analyze(&built).unwrap();
+    let ratio = b.states[1].authority[0].positive_n_m / a.states[1].authority[0].positive_n_m;
+    assert!((ratio - 0.92).abs() < 0.01, "{ratio}");
+    assert!(built.readings.iter().any(|r| r.contains("as built")));
+}
+
+#[test]
+fn bad_tolerances_name_line_column_and_field() {
+    let text = HERON.replace("hole = \"±0.05 mm\"", "hole = \"0.05 mm\"");
+    let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
+    let p = &e.problems()[0];
+    assert_eq!(p.field, "tolerances.hole");
+    let line = text.lines().position(|l| l.starts_with("hole = \"0.05 mm\"")).unwrap() + 1;
+    assert_eq!(p.line, line);
+    assert_eq!(p.column, 8);
+    assert!(p.message.contains("sigma"), "{}", p.message);
+    let text = HERON.replace("mass = \"±2 %\"", "mass = \"±20 g\"");
+    let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
+    assert_eq!(e.problems()[0].field, "tolerances.mass");
+    let text = HERON.replace("ports = [\"roll-pos-a\", \"roll-pos-b\", \"roll-neg-a\", \"roll-neg-b\"]\ntangential_cant = \"±3 deg\"", "ports = [\"roll-pos-z\"]\ntangential_cant = \"±3 deg\"");
+    let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
+    assert_eq!(e.problems()[0].field, "tolerances.port[0].ports");
+    let text = HERON.replace("cg_station = \"±5 mm\"", "cg_station = \"±5 mm\"\nwobble = \"±1 mm\"");
+    let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
+    assert!(e.to_string().contains("wobble"), "{e}");
+    let text = format!("{HERON}\n[[measured]]\nport = \"yaw-neg\"\nthrust = \"1 N\"\n");
+    let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
+    assert_eq!(e.problems()[0].field, "measured[0].supply_pressure");
+}

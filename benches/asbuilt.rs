@@ -37,16 +37,19 @@ fn bench(c: &mut Criterion) {
     let mut g = c.benchmark_group("as built");
     g.sample_size(10);
     g.throughput(Throughput::Elements(10_000));
-    g.bench_function("10000 sampled vehicles, 8 ports, 3 states, both cores", |b| {
-        b.iter(|| {
-            black_box(portwright::asbuilt::sampling::run(
-                &run.basis,
-                &run.checks,
-                10_000,
-                1,
-            ))
-        })
-    });
+    g.bench_function(
+        "10000 sampled vehicles, 8 ports, 3 states, both cores",
+        |b| {
+            b.iter(|| {
+                black_box(portwright::asbuilt::sampling::run(
+                    &run.basis,
+                    &run.checks,
+                    10_000,
+                    1,
+                ))
+            })
+        },
+    );
     g.finish();
 
     let robust = Arc::new(RobustMargins::new(&d, &a, &spec, 64, 1).expect("draws"));

@@ -39,7 +39,15 @@ fn tolerance_reports_both_demos_as_text_and_json() {
         ] {
             assert!(text.contains(want), "{layout}: no `{want}`");
         }
-        let json = run_ok(&["tolerance", layout, "--samples", "500", "--seed", "3", "--json"]);
+        let json = run_ok(&[
+            "tolerance",
+            layout,
+            "--samples",
+            "500",
+            "--seed",
+            "3",
+            "--json",
+        ]);
         let v: serde_json::Value = serde_json::from_str(&json).unwrap();
         assert_eq!(v["samples"], 500);
         let st = &v["states"][0];
@@ -47,7 +55,15 @@ fn tolerance_reports_both_demos_as_text_and_json() {
         assert!(st["onoff"]["rows_checked"].is_number());
         assert!(v["sensitivities"][0]["entries"][0]["variance_share"].is_number());
         // Same seed, same numbers.
-        let again = run_ok(&["tolerance", layout, "--samples", "500", "--seed", "3", "--json"]);
+        let again = run_ok(&[
+            "tolerance",
+            layout,
+            "--samples",
+            "500",
+            "--seed",
+            "3",
+            "--json",
+        ]);
         assert_eq!(json, again);
     }
 }
@@ -72,14 +88,21 @@ fn tolerance_rejects_bad_options_and_layouts_without_tolerances() {
     assert_eq!(out.status.code(), Some(1));
     assert!(String::from_utf8_lossy(&out.stderr).contains("no [tolerances] section"));
     let bad = dir.path().join("bad.toml");
-    std::fs::write(&bad, text.replace("clock = \"±1 deg\"", "clock = \"±1 kg\"")).unwrap();
+    std::fs::write(
+        &bad,
+        text.replace("clock = \"±1 deg\"", "clock = \"±1 kg\""),
+    )
+    .unwrap();
     let out = portwright()
         .args(["tolerance", bad.to_str().unwrap()])
         .output()
         .unwrap();
     assert_eq!(out.status.code(), Some(1));
     let err = String::from_utf8_lossy(&out.stderr);
-    assert!(err.contains("bad.toml:") && err.contains("tolerances.clock"), "{err}");
+    assert!(
+        err.contains("bad.toml:") && err.contains("tolerances.clock"),
+        "{err}"
+    );
 }
 
 #[test]
@@ -106,7 +129,12 @@ fn tolerance_and_run_write_the_spread_files() {
     let svg = std::fs::read_to_string(out.join("tolerance-shares.svg")).unwrap();
     roxmltree::Document::parse(&svg).expect("well-formed SVG");
     let bundle = dir.path().join("run");
-    let printed = run_ok(&["run", "layouts/heron-54.toml", "--out", bundle.to_str().unwrap()]);
+    let printed = run_ok(&[
+        "run",
+        "layouts/heron-54.toml",
+        "--out",
+        bundle.to_str().unwrap(),
+    ]);
     assert!(printed.contains("As built (2000 sampled vehicles"));
     let html = std::fs::read_to_string(bundle.join("report.html")).unwrap();
     assert!(html.contains("As built: tolerances"));
@@ -116,7 +144,13 @@ fn tolerance_and_run_write_the_spread_files() {
 /// Worst nominal margin and the chance of a margin below 1 (seed 77, 4000 samples).
 fn spread_of(layout: &str) -> (f64, f64) {
     let v: serde_json::Value = serde_json::from_str(&run_ok(&[
-        "tolerance", layout, "--samples", "4000", "--seed", "77", "--json",
+        "tolerance",
+        layout,
+        "--samples",
+        "4000",
+        "--seed",
+        "77",
+        "--json",
     ]))
     .unwrap();
     let mut worst = f64::INFINITY;
@@ -127,7 +161,10 @@ fn spread_of(layout: &str) -> (f64, f64) {
             }
         }
     }
-    (worst, v["probability_any_margin_below_one"].as_f64().unwrap())
+    (
+        worst,
+        v["probability_any_margin_below_one"].as_f64().unwrap(),
+    )
 }
 
 #[test]
@@ -141,7 +178,14 @@ fn the_robust_objective_finds_a_layout_the_plain_margin_does_not() {
     let plain = dir.path().join("plain.toml");
     let robust = dir.path().join("robust.toml");
     let layout = "layouts/heron-54-cant-trade.toml";
-    run_ok(&["optimize", layout, "--objective", "margin", "--out", plain.to_str().unwrap()]);
+    run_ok(&[
+        "optimize",
+        layout,
+        "--objective",
+        "margin",
+        "--out",
+        plain.to_str().unwrap(),
+    ]);
     let report = run_ok(&[
         "optimize",
         layout,
@@ -153,8 +197,25 @@ fn the_robust_objective_finds_a_layout_the_plain_margin_does_not() {
     assert!(report.contains("margin@p5"), "{report}");
     let (plain_nominal, plain_risk) = spread_of(plain.to_str().unwrap());
     let (robust_nominal, robust_risk) = spread_of(robust.to_str().unwrap());
-    assert!(plain_nominal > robust_nominal + 0.1, "{plain_nominal} vs {robust_nominal}");
-    assert!(robust_risk < 0.75 * plain_risk, "{robust_risk} vs {plain_risk}");
+    assert!(
+        plain_nominal > robust_nominal + 0.1,
+        "{plain_nominal} vs {robust_nominal}"
+    );
+    assert!(
+        robust_risk < 0.75 * plain_risk,
+        "{robust_risk} vs {plain_risk}"
+    );
+    // Osprey too (converging–diverging pitch and yaw nozzles), briefly.
+    run_ok(&[
+        "optimize",
+        "layouts/osprey-98.toml",
+        "--objective",
+        "margin@p5",
+        "--max-evals",
+        "300",
+        "--out",
+        dir.path().join("osprey.toml").to_str().unwrap(),
+    ]);
     // Combined with another objective it still runs.
     run_ok(&[
         "optimize",
@@ -166,6 +227,29 @@ fn the_robust_objective_finds_a_layout_the_plain_margin_does_not() {
         "--out",
         dir.path().join("combined.toml").to_str().unwrap(),
     ]);
+}
+
+#[test]
+fn measured_throats_work_on_osprey() {
+    let text = std::fs::read_to_string("layouts/osprey-98.toml").unwrap();
+    let measured = format!(
+        "{text}\n[[measured]]\nport = \"pitch-pos\"\nclock = \"91 deg\"\nthroat = \"2.25 mm\"\nmass_flow = \"4 g/s\"\nsupply_pressure = \"120 psig\"\n"
+    );
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("built.toml");
+    std::fs::write(&path, &measured).unwrap();
+    let report = run_ok(&["tolerance", path.to_str().unwrap(), "--samples", "200"]);
+    clean(&report);
+    assert!(report.contains("Measured against designed"), "{report}");
+    assert!(report.contains("g/s measured"), "{report}");
+    let wrong = measured.replace("throat = \"2.25 mm\"", "hole = \"2.25 mm\"");
+    std::fs::write(&path, wrong).unwrap();
+    let out = portwright()
+        .args(["analyze", path.to_str().unwrap()])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("measured[0].hole"));
 }
 
 #[test]
@@ -183,11 +267,28 @@ fn measured_ports_reach_every_command() {
     assert!(report.contains("Measured against designed"), "{report}");
     assert!(report.contains("measured"));
     let analysis = run_ok(&["analyze", p]);
-    assert!(analysis.contains("as built from [[measured]]"), "{analysis}");
+    assert!(
+        analysis.contains("as built from [[measured]]"),
+        "{analysis}"
+    );
     let drawn = dir.path().join("drawn.h");
     let built = dir.path().join("built.h");
-    run_ok(&["table", "layouts/heron-54.toml", "--format", "c", "--out", drawn.to_str().unwrap()]);
-    run_ok(&["table", p, "--format", "c", "--out", built.to_str().unwrap()]);
+    run_ok(&[
+        "table",
+        "layouts/heron-54.toml",
+        "--format",
+        "c",
+        "--out",
+        drawn.to_str().unwrap(),
+    ]);
+    run_ok(&[
+        "table",
+        p,
+        "--format",
+        "c",
+        "--out",
+        built.to_str().unwrap(),
+    ]);
     assert_ne!(
         std::fs::read_to_string(drawn).unwrap(),
         std::fs::read_to_string(built).unwrap()

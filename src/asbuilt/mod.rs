@@ -2,16 +2,16 @@
 //! design, which tolerance matters, a robust objective for the optimiser, and
 //! measured ports fed back into every command.
 //!
-//! - [`spec`]: tolerances as spreads (uniform ± or normal σ) on the inputs;
-//! - [`vehicle`]: the design reduced for sampling, and one as-built vehicle;
-//! - [`sampling`]: seeded, parallel Monte Carlo over as-built vehicles;
-//! - [`onoff`]: whether the firmware's on/off sets still meet their thresholds;
-//! - [`sensitivity`]: first-order sensitivities and variance shares;
-//! - [`stats`]: percentiles;
-//! - [`report`]: the `tolerance` report as plain data and as text;
-//! - [`robust`]: the `margin@pN` objective (common random numbers);
-//! - [`measured`]: measured ports replacing the drawn ones;
-//! - [`plots`]: variance-share bars and margin histograms.
+//! - [`spec`] holds tolerances as spreads (uniform ± or normal σ) on the inputs;
+//! - [`vehicle`] holds the design reduced for sampling, and one as-built vehicle;
+//! - [`sampling`] holds seeded, parallel Monte Carlo over as-built vehicles;
+//! - [`onoff`] holds whether the firmware's on/off sets still meet their thresholds;
+//! - [`sensitivity`] holds first-order sensitivities and variance shares;
+//! - [`stats`] holds percentiles;
+//! - [`report`] holds the `tolerance` report as plain data and as text;
+//! - [`robust`] holds the `margin@pN` objective (common random numbers);
+//! - [`measured`] holds measured ports replacing the drawn ones;
+//! - [`plots`] holds variance-share bars and margin histograms.
 //!
 //! The layout reader hands a [`spec::ToleranceSpec`] and the measurements down;
 //! nothing here reads files or prints.

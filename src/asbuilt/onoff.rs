@@ -9,6 +9,9 @@
 //! nominal supply droop f(k). The as-built torque of a set is f(k)·Σ τᵢ over
 //! its open ports. Only rows that met every threshold as drawn are checked.
 
+// Index loops here follow the formulas (axis k, input j, port i, pairs j < k).
+#![allow(clippy::needless_range_loop)]
+
 use crate::allocation::{OnOffOptions, Tolerances};
 use crate::export::firmware::{FirmwareTables, OnOffOutcome};
 use nalgebra::Vector3;

@@ -6,6 +6,9 @@
 //! plots small, exact and independent of any font metrics; PNG copies go
 //! through the same renderer as the other plots.
 
+// Index loops here follow the formulas (axis k, input j, port i, pairs j < k).
+#![allow(clippy::needless_range_loop)]
+
 use super::report::{render_text, SpreadRun, ToleranceReport};
 use crate::analysis::authority::AXES;
 use crate::export::bundle::OutputFile;

@@ -4,6 +4,9 @@
 //! bits, and the ranked sensitivities. Plain data (serialised as JSON) and a
 //! text rendering.
 
+// Index loops here follow the formulas (axis k, input j, port i, pairs j < k).
+#![allow(clippy::needless_range_loop)]
+
 use super::onoff::OnOffCheck;
 use super::sampling::{self, Sample};
 use super::sensitivity::{sensitivities, MarginSensitivity};

@@ -10,6 +10,9 @@
 //! disagree by more than 10 % the envelope's limiting facet changes at the
 //! nominal point and the entry is flagged: first order is not reliable there.
 
+// Index loops here follow the formulas (axis k, input j, port i, pairs j < k).
+#![allow(clippy::needless_range_loop)]
+
 use super::sampling::evaluate;
 use super::vehicle::{Applied, Basis};
 use serde::Serialize;

@@ -505,7 +505,11 @@ fn bad_tolerances_name_line_column_and_field() {
     let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
     let p = &e.problems()[0];
     assert_eq!(p.field, "tolerances.hole");
-    let line = text.lines().position(|l| l.starts_with("hole = \"0.05 mm\"")).unwrap() + 1;
+    let line = text
+        .lines()
+        .position(|l| l.starts_with("hole = \"0.05 mm\""))
+        .unwrap()
+        + 1;
     assert_eq!(p.line, line);
     assert_eq!(p.column, 8);
     assert!(p.message.contains("sigma"), "{}", p.message);
@@ -515,7 +519,10 @@ fn bad_tolerances_name_line_column_and_field() {
     let text = HERON.replace("ports = [\"roll-pos-a\", \"roll-pos-b\", \"roll-neg-a\", \"roll-neg-b\"]\ntangential_cant = \"±3 deg\"", "ports = [\"roll-pos-z\"]\ntangential_cant = \"±3 deg\"");
     let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
     assert_eq!(e.problems()[0].field, "tolerances.port[0].ports");
-    let text = HERON.replace("cg_station = \"±5 mm\"", "cg_station = \"±5 mm\"\nwobble = \"±1 mm\"");
+    let text = HERON.replace(
+        "cg_station = \"±5 mm\"",
+        "cg_station = \"±5 mm\"\nwobble = \"±1 mm\"",
+    );
     let e = crate::layout::parse_str(&text, "x.toml").unwrap_err();
     assert!(e.to_string().contains("wobble"), "{e}");
     let text = format!("{HERON}\n[[measured]]\nport = \"yaw-neg\"\nthrust = \"1 N\"\n");

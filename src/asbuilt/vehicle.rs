@@ -17,6 +17,9 @@
 //! so it scales both inertias by the same factor; the inertia tolerances come
 //! on top. The CG shift is the same at every flight state.
 
+// Index loops here follow the formulas (axis k, input j, port i, pairs j < k).
+#![allow(clippy::needless_range_loop)]
+
 use super::spec::{Input, Spread, ToleranceSpec};
 use super::AsBuiltError;
 use crate::analysis::{feed, Analysis};

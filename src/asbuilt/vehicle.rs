@@ -44,6 +44,10 @@ pub struct StateBasis {
     pub cg: Vector3<f64>,
     /// Nominal diagonal inertia, kg·m².
     pub inertia: Vector3<f64>,
+    /// Nominal required torque from the wanted accelerations, per axis, N·m.
+    pub from_acceleration_n_m: [f64; 3],
+    /// Nominal required torque from disturbances, per axis, N·m.
+    pub from_disturbance_n_m: [f64; 3],
     /// Nominal thrust of each port fired alone, N.
     pub thrust_n: Vec<f64>,
     /// How each port's thrust responds to its hole diameter, discharge
@@ -262,6 +266,8 @@ impl Basis {
                 burning: s.motor == MotorCondition::Burning,
                 cg: s.mass.cg(),
                 inertia: s.mass.inertia_diagonal(),
+                from_acceleration_n_m: s.required.from_acceleration_n_m,
+                from_disturbance_n_m: s.required.from_disturbance_n_m,
                 thrust_n: s.ports.iter().map(|p| p.thrust_n).collect(),
                 response,
                 droop_factor: s
@@ -368,27 +374,30 @@ impl Basis {
         nominal_n * g.exp()
     }
 
-    /// Torque required about roll, pitch and yaw at state k, N·m.
+    /// Torque required about roll, pitch and yaw at state k, N·m: the
+    /// analysis's own requirement as drawn, its acceleration part scaled by
+    /// the sampled inertia, and (while the motor burns) its pitch and yaw
+    /// disturbance changed by T·(sin|a₀ + δa|·ℓ' − sin|a₀|·ℓ), with a the
+    /// misalignment and ℓ the distance from the CG to the motor nozzle.
     pub fn required(&self, k: usize, a: &Applied) -> [f64; 3] {
         let s = &self.states[k];
         let m = 1.0 + a.mass;
-        let i = [
-            s.inertia[0] * m * (1.0 + a.ixx),
-            s.inertia[1] * m * (1.0 + a.iyy),
-            s.inertia[2] * m * (1.0 + a.iyy),
-        ];
-        let mis = if s.burning {
-            let cg_station = -s.cg.x + a.cg_shift_m;
+        let acc = s.from_acceleration_n_m;
+        let dist = s.from_disturbance_n_m;
+        let extra = if s.burning {
+            let cg0 = -s.cg.x;
+            let arm0 = (self.nozzle_station_m - cg0).abs();
+            let arm = (self.nozzle_station_m - cg0 - a.cg_shift_m).abs();
             self.motor_thrust_n
-                * (self.misalignment_rad + a.misalignment_rad).abs().sin()
-                * (self.nozzle_station_m - cg_station).abs()
+                * ((self.misalignment_rad + a.misalignment_rad).abs().sin() * arm
+                    - self.misalignment_rad.abs().sin() * arm0)
         } else {
             0.0
         };
         [
-            i[0] * self.accel_rad_s2[0] + self.roll_disturbance_n_m,
-            i[1] * self.accel_rad_s2[1] + mis,
-            i[2] * self.accel_rad_s2[2] + mis,
+            acc[0] * m * (1.0 + a.ixx) + dist[0],
+            acc[1] * m * (1.0 + a.iyy) + (dist[1] + extra).max(0.0),
+            acc[2] * m * (1.0 + a.iyy) + (dist[2] + extra).max(0.0),
         ]
     }
 

@@ -31,6 +31,9 @@ pub struct Design {
     pub manoeuvres: Vec<Manoeuvre>,
     /// Plain notes about how the file was read (for example "`150 psi` read as gauge").
     pub readings: Vec<String>,
+    /// Steepest drill angle from the surface normal the builder can drill, rad
+    /// (`[limits] max_cant`, 60° when not given); steeper ports are reported.
+    pub max_cant_rad: f64,
 }
 
 /// Body tube, nose cone, fins and keep-out zones.

@@ -3,6 +3,8 @@
 //! Numbers are shown in the units a builder works in (mm, g, N, mN·m, deg/s²,
 //! bar and psi) while the JSON form keeps SI with the unit in each field name.
 
+pub mod allocate;
+
 use crate::analysis::Analysis;
 use comfy_table::{presets::UTF8_FULL_CONDENSED, Cell, CellAlignment, Table};
 use std::fmt::Write;
@@ -16,17 +18,75 @@ fn table(headers: &[&str]) -> Table {
     t
 }
 
-fn num(v: f64, decimals: usize) -> Cell {
-    let text = if v.is_finite() {
-        format!("{v:.decimals$}")
-    } else {
-        "—".to_string()
-    };
-    Cell::new(text).set_alignment(CellAlignment::Right)
+/// `v` to `decimals` places, never "-0.0" (a value that rounds to zero is shown
+/// as zero); `None` for NaN or infinity, which the caller puts in words.
+pub fn fixed(v: f64, decimals: usize) -> Option<String> {
+    if !v.is_finite() {
+        return None;
+    }
+    let text = format!("{v:.decimals$}");
+    Some(
+        if text
+            .trim_start_matches('-')
+            .chars()
+            .all(|c| c == '0' || c == '.')
+        {
+            text.trim_start_matches('-').to_string()
+        } else {
+            text
+        },
+    )
 }
 
+/// Like [`fixed`] with a sign in front of every value that does not round to zero.
+pub fn signed(v: f64, decimals: usize) -> Option<String> {
+    fixed(v, decimals).map(|t| {
+        if t.starts_with('-') || t.chars().all(|c| c == '0' || c == '.') {
+            t
+        } else {
+            format!("+{t}")
+        }
+    })
+}
+
+/// A right-aligned number, or `missing` in words when there is none.
+fn num_or(v: f64, decimals: usize, missing: &str) -> Cell {
+    Cell::new(fixed(v, decimals).unwrap_or_else(|| missing.to_string()))
+        .set_alignment(CellAlignment::Right)
+}
+
+fn num(v: f64, decimals: usize) -> Cell {
+    num_or(v, decimals, "not available")
+}
+
+/// Three components with signs, never "-0.00".
+fn triple(v: [f64; 3], scale: f64, decimals: usize) -> String {
+    v.map(|x| signed(x * scale, decimals).unwrap_or_else(|| "?".to_string()))
+        .join(" ")
+}
+
+/// An absolute pressure in bar and psi, marked absolute.
 fn bar_psi(pa: f64) -> String {
-    format!("{:.2} bar ({:.0} psi)", pa / 1e5, pa / PSI_PA)
+    format!("{:.2} bara ({:.0} psia)", pa / 1e5, pa / PSI_PA)
+}
+
+/// Motor condition in the words of the layout file.
+fn motor_words(m: crate::model::MotorCondition) -> &'static str {
+    match m {
+        crate::model::MotorCondition::Burning => "burning",
+        crate::model::MotorCondition::Burnout => "burnout",
+    }
+}
+
+/// The roll-to-pitch ratio, or in words why there is none.
+fn ratio_words(ratio: f64, authority: &[crate::analysis::authority::AxisAuthority; 3]) -> String {
+    if authority[1].angular_accel_rad_s2 <= 0.0 {
+        "not defined: no pitch authority".to_string()
+    } else if authority[0].angular_accel_rad_s2 <= 0.0 {
+        "0 (no roll authority)".to_string()
+    } else {
+        fixed(ratio, 2).unwrap_or_else(|| "not defined".to_string())
+    }
 }
 
 /// Render the report as text.
@@ -126,16 +186,16 @@ pub fn render_text(a: &Analysis) -> String {
     }
     let _ = writeln!(s, "{t}\n");
 
-    let _ = writeln!(s, "Mass properties");
+    let _ = writeln!(s, "Mass properties (about each state's CG)");
     let mut t = table(&[
         "state",
         "mass (g)",
         "CG station (mm)",
+        "CG off axis y z (mm)",
         "Ixx (kg m²)",
         "Iyy (kg m²)",
         "Izz (kg m²)",
-        "gas (g)",
-        "",
+        "gas in tank (g)",
     ]);
     for st in &a.states {
         let m = &st.mass;
@@ -143,35 +203,55 @@ pub fn render_text(a: &Analysis) -> String {
             Cell::new(&st.name),
             num(m.mass_kg * 1e3, 1),
             num(m.cg_station_m * 1e3, 1),
+            Cell::new(format!(
+                "{} {}",
+                signed(m.cg_y_m * 1e3, 2).unwrap_or_default(),
+                signed(m.cg_z_m * 1e3, 2).unwrap_or_default()
+            ))
+            .set_alignment(CellAlignment::Right),
             num(m.ixx_kg_m2, 5),
             num(m.iyy_kg_m2, 4),
             num(m.izz_kg_m2, 4),
             num(st.gas_in_tank_kg * 1e3, 1),
-            Cell::new(if m.overridden {
-                "measured values used"
-            } else {
-                ""
-            }),
         ]);
     }
-    let _ = writeln!(s, "{t}\n");
+    let _ = writeln!(s, "{t}");
+    for st in &a.states {
+        let m = &st.mass;
+        if m.ixy_kg_m2 != 0.0 || m.ixz_kg_m2 != 0.0 || m.iyz_kg_m2 != 0.0 {
+            let _ = writeln!(
+                s,
+                "products of inertia at {} (tensor elements, kg m²): Ixy {:.3e}, Ixz {:.3e}, Iyz {:.3e}; accelerations below use the full tensor",
+                st.name, m.ixy_kg_m2, m.ixz_kg_m2, m.iyz_kg_m2
+            );
+        }
+        if m.overridden {
+            let _ = writeln!(
+                s,
+                "{}: measured values from the layout replace computed ones",
+                st.name
+            );
+        }
+    }
+    let _ = writeln!(s);
 
     for st in &a.states {
         let _ = writeln!(
             s,
-            "State `{}`: {:.0} m, ambient {:.1} kPa, manifold {} with one valve open, motor {:?}",
+            "State `{}`: {:.0} m, ambient {:.1} kPa abs, manifold {} with one valve open, motor {}",
             st.name,
             st.altitude_m,
             st.ambient_pressure_pa / 1e3,
             bar_psi(st.regulated_pressure_pa),
-            st.motor
+            motor_words(st.motor)
         );
         let mut t = table(&[
             "port",
             "thrust (N)",
             "flow (g/s)",
             "Isp (s)",
-            "Fx Fy Fz (N)",
+            "axial Fx (N)",
+            "side force Fy Fz (N)",
             "roll pitch yaw torque (mN m)",
             "nozzle",
         ]);
@@ -181,16 +261,14 @@ pub fn render_text(a: &Analysis) -> String {
                 num(p.thrust_n, 3),
                 num(p.mass_flow_kg_s * 1e3, 3),
                 num(p.specific_impulse_s, 1),
+                Cell::new(signed(p.force_n[0], 3).unwrap_or_default())
+                    .set_alignment(CellAlignment::Right),
                 Cell::new(format!(
-                    "{:+.2} {:+.2} {:+.2}",
-                    p.force_n[0], p.force_n[1], p.force_n[2]
+                    "{} {}",
+                    signed(p.force_n[1], 3).unwrap_or_default(),
+                    signed(p.force_n[2], 3).unwrap_or_default()
                 )),
-                Cell::new(format!(
-                    "{:+.1} {:+.1} {:+.1}",
-                    p.torque_n_m[0] * 1e3,
-                    p.torque_n_m[1] * 1e3,
-                    p.torque_n_m[2] * 1e3
-                )),
+                Cell::new(triple(p.torque_n_m, 1e3, 1)),
                 Cell::new(&p.nozzle_regime),
             ]);
         }
@@ -204,13 +282,24 @@ pub fn render_text(a: &Analysis) -> String {
             "margin",
         ]);
         for ax in &st.authority {
+            let none = format!("no {} authority", ax.axis);
+            let margin = if ax.required_n_m > 0.0 {
+                num_or(ax.margin, 2, "none required")
+            } else {
+                Cell::new("none required").set_alignment(CellAlignment::Right)
+            };
+            let accel = if ax.angular_accel_rad_s2 > 0.0 {
+                num(ax.angular_accel_rad_s2.to_degrees(), 0)
+            } else {
+                Cell::new(&none).set_alignment(CellAlignment::Right)
+            };
             t.add_row(vec![
                 Cell::new(ax.axis),
                 num(ax.positive_n_m * 1e3, 1),
                 num(ax.negative_n_m * 1e3, 1),
-                num(ax.angular_accel_rad_s2.to_degrees(), 0),
+                accel,
                 num(ax.required_n_m * 1e3, 2),
-                num(ax.margin, 2),
+                margin,
             ]);
         }
         let _ = writeln!(s, "{t}");
@@ -226,24 +315,28 @@ pub fn render_text(a: &Analysis) -> String {
         );
         let _ = writeln!(
             s,
-            "roll-to-pitch authority ratio {:.2}",
-            st.roll_to_pitch_ratio
+            "roll-to-pitch authority ratio {}",
+            ratio_words(st.roll_to_pitch_ratio, &st.authority)
         );
         let droop: Vec<String> = st
             .droop
             .iter()
             .map(|d| {
-                format!(
-                    "{}: {:.3} N (−{:.1} %)",
-                    d.open_ports,
-                    d.thrust_per_port_n,
-                    d.thrust_drop_fraction * 100.0
-                )
+                let drop = fixed(d.thrust_drop_fraction * 100.0, 1).unwrap_or_default();
+                if drop == "0.0" {
+                    format!("{}: {:.3} N", d.open_ports, d.thrust_per_port_n)
+                } else {
+                    format!(
+                        "{}: {:.3} N ({drop} % less)",
+                        d.open_ports, d.thrust_per_port_n
+                    )
+                }
             })
             .collect();
         let _ = writeln!(
             s,
-            "thrust per port with k valves open: {}",
+            "thrust of `{}` (largest flow; first in the layout among equals) with k equal valves open: {}",
+            st.droop_port,
             droop.join(", ")
         );
         let _ = writeln!(

@@ -1,5 +1,6 @@
 //! Airframe geometry shared by mass properties, exports and constraint checks.
 
+pub mod drilling;
 pub mod nose;
 pub mod placement;
 

@@ -13,6 +13,7 @@
 //!   reference and for the side-force-limited envelope.
 //! - [`region_map`]: the exact piecewise-linear minimum-gas map, one region per basis.
 //! - [`onoff`]: least-gas on/off valve sets for the 26 per-axis commands.
+//! - [`saturation`]: whether the envelope or the side-force limit stopped a command.
 //!
 //! All thresholds live in [`Tolerances`].
 //!
@@ -49,6 +50,7 @@ pub mod mingas;
 pub mod onoff;
 pub mod rays;
 pub mod region_map;
+pub mod saturation;
 pub mod simplex;
 pub mod zonotope;
 

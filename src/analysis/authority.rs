@@ -45,11 +45,13 @@ pub struct AxisAuthority {
     pub margin: f64,
 }
 
-/// Build per-axis authority from the available torques (weaker sense counts).
+/// Build per-axis authority from the available torques (weaker sense counts) and
+/// the angular acceleration attainable about each axis alone (weaker sense, rad/s²;
+/// see [`crate::analysis::axis_accelerations`] for how the full inertia tensor enters).
 pub fn axis_authority(
     positive: Vector3<f64>,
     negative: Vector3<f64>,
-    inertia: Vector3<f64>,
+    accel_rad_s2: [f64; 3],
     required: &Required,
 ) -> [AxisAuthority; 3] {
     let total = required.total_n_m();
@@ -59,7 +61,7 @@ pub fn axis_authority(
             axis: AXES[k],
             positive_n_m: positive[k],
             negative_n_m: negative[k],
-            angular_accel_rad_s2: weak / inertia[k],
+            angular_accel_rad_s2: accel_rad_s2[k],
             required_n_m: total[k],
             margin: if total[k] > 0.0 {
                 weak / total[k]
@@ -83,7 +85,7 @@ mod tests {
         let a = axis_authority(
             Vector3::new(1.0, 0.4, 0.3),
             Vector3::new(0.6, 0.5, 0.3),
-            Vector3::new(0.01, 1.0, 1.0),
+            [60.0, 0.4, 0.3],
             &req,
         );
         assert_eq!(a[0].margin, 0.6 / 0.2);

@@ -113,8 +113,12 @@ pub struct PortReport {
     pub nozzle_regime: String,
     /// Exit pressure below 0.4 of ambient.
     pub strongly_overexpanded: bool,
-    /// Force on the vehicle at full thrust, body frame, N.
+    /// Force on the vehicle at full thrust, body frame, N (all three components).
     pub force_n: [f64; 3],
+    /// Its axial part Fx, N (+ toward the nose).
+    pub axial_force_n: f64,
+    /// Its lateral part (Fy, Fz), the side force, N.
+    pub side_force_n: [f64; 2],
     /// Torque about the state's CG at full thrust, N·m.
     pub torque_n_m: [f64; 3],
 }
@@ -128,6 +132,8 @@ pub struct PortsAt {
     pub regulated_pressure_pa: f64,
     /// Droop table for the port with the largest flow.
     pub droop: Vec<DroopRow>,
+    /// Index of that port (see [`droop_port`] for the tie rule).
+    pub droop_port: usize,
     /// Valves that can fire together within the accepted droop.
     pub ports_within_5_percent: usize,
     /// Total flow with every valve open, kg/s.
@@ -258,14 +264,13 @@ pub fn ports_at(design: &Design, state: &str, ambient_pa: f64) -> Result<PortsAt
             nozzle_regime: regime_words(s.nozzle.regime).to_string(),
             strongly_overexpanded: s.nozzle.regime == NozzleRegime::StronglyOverExpanded,
             force_n: [0.0; 3],
+            axial_force_n: 0.0,
+            side_force_n: [0.0; 2],
             torque_n_m: [0.0; 3],
         });
     }
-    let biggest = ports
-        .iter()
-        .enumerate()
-        .max_by(|a, b| a.1.mass_flow_kg_s.total_cmp(&b.1.mass_flow_kg_s))
-        .map_or(0, |(i, _)| i);
+    let flows: Vec<f64> = ports.iter().map(|p| p.mass_flow_kg_s).collect();
+    let biggest = droop_port(&flows);
     let firing = supply
         .equal_ports(&chains[biggest], chains.len(), ALLOWED_DROOP, &ctx)
         .map_err(|e| flow_err(&design.ports[biggest].name, e))?;
@@ -286,9 +291,25 @@ pub fn ports_at(design: &Design, state: &str, ambient_pa: f64) -> Result<PortsAt
         ports,
         regulated_pressure_pa: regulated,
         droop,
+        droop_port: biggest,
         ports_within_5_percent: firing.ports_within_limit,
         all_open_flow_kg_s: all.total_mass_flow_kg_s,
     })
+}
+
+/// Flows within this fraction of the largest count as equal when choosing the
+/// port whose droop table is shown: mirrored ports differ only by round-off.
+pub const DROOP_TIE_RELATIVE: f64 = 1e-9;
+
+/// The port the droop table is computed for: the one with the largest mass flow,
+/// and among flows equal to it within [`DROOP_TIE_RELATIVE`] the lowest port
+/// index (the first in the layout file), so a tie is never settled by round-off.
+pub fn droop_port(flows_kg_s: &[f64]) -> usize {
+    let top = flows_kg_s.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    flows_kg_s
+        .iter()
+        .position(|&f| f >= top - DROOP_TIE_RELATIVE * top.abs())
+        .unwrap_or(0)
 }
 
 /// Minimum impulse bit: the shortest command pulse lasts the opening delay; with
@@ -325,7 +346,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
     let mut warnings = Vec::new();
     if inv.supply_pressure_pa <= end {
         warnings.push(format!(
-            "the tank pressure at fill ({:.1} bar) is below what the regulator needs ({:.1} bar): no gas is usable",
+            "the tank pressure at fill ({:.1} bara) is below what the regulator needs ({:.1} bara): no gas is usable",
             inv.supply_pressure_pa / 1e5,
             end / 1e5
         ));

@@ -12,6 +12,9 @@ const TIGHT_MARGIN: f64 = 1.5;
 /// Margin above which an axis is called oversized.
 const GENEROUS_MARGIN: f64 = 8.0;
 
+/// How far past `[limits] max_cant` a port must be before it is reported (0.001°).
+const MAX_CANT_SLACK_RAD: f64 = 0.001 * std::f64::consts::PI / 180.0;
+
 /// Plain-words findings for the report.
 pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec<String> {
     let mut out = Vec::new();
@@ -56,9 +59,17 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
         }
     }
     if let (Some(first), Some(last)) = (states.first(), states.last()) {
+        let ratio = |s: &StateReport| {
+            if s.authority[1].angular_accel_rad_s2 > 0.0 && s.roll_to_pitch_ratio.is_finite() {
+                format!("{:.1} at {}", s.roll_to_pitch_ratio, s.name)
+            } else {
+                format!("not defined at {} (no pitch authority)", s.name)
+            }
+        };
         out.push(format!(
-            "roll-to-pitch authority ratio is {:.1} at {} and {:.1} at {}",
-            first.roll_to_pitch_ratio, first.name, last.roll_to_pitch_ratio, last.name
+            "roll-to-pitch authority ratio is {} and {}",
+            ratio(first),
+            ratio(last)
         ));
     }
     let hold = design.requirements.hold_time_s;
@@ -69,6 +80,19 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
                 "holding against the roll disturbance for {hold:.0} s needs about {:.1} g of gas, more than the {:.1} g usable (adiabatic bound)",
                 need * 1e3,
                 gas.usable_adiabatic_kg * 1e3
+            ));
+        }
+    }
+    for p in &design.ports {
+        let jig = p.total_cant_rad();
+        // Equal within 0.001° counts as within the limit, so a port cut at exactly
+        // the limit is not judged by round-off (far finer than any drill jig).
+        if jig > design.max_cant_rad + MAX_CANT_SLACK_RAD {
+            out.push(format!(
+                "port `{}`: the drill is set {:.1}° from the surface normal, steeper than the {:.1}° of `[limits] max_cant`: a hole this steep is hard to start and to place; use a drill guide or reduce the cant",
+                p.name,
+                jig.to_degrees(),
+                design.max_cant_rad.to_degrees()
             ));
         }
     }
@@ -83,7 +107,8 @@ pub fn findings(design: &Design, gas: &GasBudget, states: &[StateReport]) -> Vec
 fn gas_for_hold(design: &Design, states: &[StateReport]) -> f64 {
     let mut worst = 0.0f64;
     for s in states {
-        let need = s.required.from_disturbance_n_m[0];
+        // The steady roll disturbance only: the motor's share lasts the burn alone.
+        let need = design.requirements.roll_disturbance_n_m;
         // Roll torque per kg/s of the best port (either sense).
         let best = s
             .ports

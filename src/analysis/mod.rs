@@ -70,6 +70,16 @@ pub const CAUTIONS: [&str; 5] = [
     "These figures are design estimates: confirm thrust and gas use on a test stand before relying on them.",
 ];
 
+/// Model choices the numbers depend on, listed in every report (the README
+/// states each one in full).
+pub const MODEL_NOTES: [&str; 5] = [
+    "torques are taken about each state's CG, its off-axis offset included; angular accelerations use the full inertia tensor about that CG",
+    "masses: motor case a 1 mm-wall tube of the burnout mass, propellant a solid cylinder in it while burning and none after; tank shell a 2 mm-wall tube; the gas a uniform cylinder filling the tank",
+    "a state's gas_remaining is a fraction of the isothermal usable gas; the regulator's dropout pressure is taken above the first state's ambient",
+    "plain holes: the discharge coefficient scales both the flow area and the area the pressure thrust acts on (Cd·A); nozzle stagnation density from the real-gas equation of state",
+    "total impulse = usable gas × the ports' flow-weighted mean Isp × g0; firing time with all ports open = usable gas / total flow with every valve open, at the first state",
+];
+
 /// The supply droop when k equal ports fire together.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct DroopRow {
@@ -112,6 +122,9 @@ pub struct StateReport {
     pub roll_to_pitch_ratio: f64,
     /// Per-port thrust with k equal ports open (the port with the largest flow).
     pub droop: Vec<DroopRow>,
+    /// The port the droop table is computed for: the largest flow, the first in
+    /// the layout among equals (within a relative 1e-9).
+    pub droop_port: String,
     /// How many ports can fire together before each one's thrust falls by more than 5 %.
     pub ports_within_5_percent: usize,
 }
@@ -157,18 +170,35 @@ pub struct Analysis {
 }
 
 /// Torque needed per axis at a state: inertia × wanted acceleration, plus the roll
-/// disturbance, plus (while burning) the motor's thrust misalignment acting at the
-/// motor nozzle's distance from the CG.
+/// disturbance, plus (while burning) the worst case of the motor thrust about the
+/// CG, all three coordinates of it.
+///
+/// The motor thrust T acts at the nozzle, on the axis at station s_n, and leans
+/// from the axis by the misalignment δ in a direction φ nobody knows. With
+/// d = (nozzle − CG) = (−L, −c_y, −c_z), L = s_n − s_cg, and
+/// F = T(cos δ, sin δ cos φ, sin δ sin φ), τ = d × F gives, each at its worst φ,
+///
+///   |τ_roll|  ≤ T sin δ √(c_y² + c_z²)
+///   |τ_pitch| ≤ T (|c_z| cos δ + |L| sin δ)
+///   |τ_yaw|   ≤ T (|c_y| cos δ + |L| sin δ)
+///
+/// so an off-axis CG adds the axial thrust's lever arm to pitch and yaw and a
+/// roll term; with the CG on the axis this is the familiar T sin δ |L|.
 pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorCondition) -> Required {
     let r = &design.requirements;
     let i = mass.inertia_diagonal();
-    let misalignment = if motor == MotorCondition::Burning {
+    let motor_torque = if motor == MotorCondition::Burning {
         let nozzle_station = design.motor.fore_station_m + design.motor.length_m;
-        r.motor_thrust_n
-            * r.thrust_misalignment_rad.sin()
-            * (nozzle_station - mass.cg_station_m).abs()
+        let lever = (nozzle_station - mass.cg_station_m).abs();
+        let (sd, cd) = r.thrust_misalignment_rad.sin_cos();
+        let t = r.motor_thrust_n;
+        [
+            t * sd * mass.cg_offset_m(),
+            t * (mass.cg_z_m.abs() * cd + lever * sd),
+            t * (mass.cg_y_m.abs() * cd + lever * sd),
+        ]
     } else {
-        0.0
+        [0.0; 3]
     };
     Required {
         from_acceleration_n_m: [
@@ -176,8 +206,37 @@ pub fn required_torques(design: &Design, mass: &MassSummary, motor: MotorConditi
             i[1] * r.pitch_accel_rad_s2,
             i[2] * r.yaw_accel_rad_s2,
         ],
-        from_disturbance_n_m: [r.roll_disturbance_n_m, misalignment, misalignment],
+        from_disturbance_n_m: [
+            r.roll_disturbance_n_m + motor_torque[0],
+            motor_torque[1],
+            motor_torque[2],
+        ],
     }
+}
+
+/// Angular acceleration attainable about each body axis alone, weaker sense, rad/s².
+///
+/// Spinning up about axis k alone at rate α needs the torque α·I·e_k, with I the
+/// full inertia tensor about the CG; when products of inertia are present that
+/// torque leans off the axis. The answer is the largest α for which both ±α·I·e_k
+/// lie inside the attainable set (an exact ray limit). With a diagonal tensor it
+/// is the axis torque over the diagonal element.
+///
+/// When the ports span fewer than three axes, the torque α·I·e_k generally has a
+/// component no port can give, and the exact answer would be zero for an axis
+/// that does have torque; there the acceleration is the axis torque over the
+/// diagonal element instead (the missing directions are reported on their own).
+pub fn axis_accelerations(z: &Zonotope, mass: &MassSummary) -> [f64; 3] {
+    let i = mass.inertia_tensor();
+    [0, 1, 2].map(|k| {
+        if z.rank() < 3 {
+            let mut e = Vector3::zeros();
+            e[k] = 1.0;
+            return z.max_along(&e).min(z.max_along(&-e)) / i[(k, k)];
+        }
+        let need = i.column(k).into_owned();
+        z.max_along(&need).min(z.max_along(&-need))
+    })
 }
 
 /// Force and torque about `cg` of each port at the given thrusts.
@@ -223,8 +282,12 @@ pub fn effectiveness(
 /// Largest torques along +roll, +pitch, +yaw and along −roll, −pitch, −yaw (as positive numbers).
 type AxisPair = (Vector3<f64>, Vector3<f64>);
 
-/// Summarise the exact envelope and return the ± axis limits.
-fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, AxisPair), String> {
+/// Summarise the exact envelope and return the ± axis limits and the angular
+/// accelerations about each axis alone.
+fn envelope(
+    e: &Effectiveness,
+    mass: &MassSummary,
+) -> Result<(EnvelopeSummary, AxisPair, [f64; 3]), String> {
     let tol = Tolerances::default();
     let z = Zonotope::torque(e, &tol).map_err(|e| e.to_string())?;
     let c = Controllability::from_zonotope(e, &z, &tol);
@@ -243,6 +306,7 @@ fn envelope(e: &Effectiveness, mass: &MassSummary) -> Result<(EnvelopeSummary, A
             controllability: c.findings(e),
         },
         (limits.positive, limits.negative),
+        axis_accelerations(&z, mass),
     ))
 }
 
@@ -264,19 +328,25 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
         let wrenches = port_wrenches(design, mass.cg(), &thrusts);
         let mut ports = at.ports;
         for (p, (f, t)) in ports.iter_mut().zip(&wrenches) {
-            p.force_n = [f.x, f.y, f.z];
-            p.torque_n_m = [t.x, t.y, t.z];
+            // `+ 0.0` turns an exact −0 (a zero cosine times a negative thrust) into
+            // +0, so no report or JSON shows a negative zero.
+            let z = |v: f64| v + 0.0;
+            p.force_n = [z(f.x), z(f.y), z(f.z)];
+            p.axial_force_n = z(f.x);
+            p.side_force_n = [z(f.y), z(f.z)];
+            p.torque_n_m = [z(t.x), z(t.y), z(t.z)];
         }
         let e = effectiveness(design, &mass, &ports).map_err(|e| AnalysisError::Allocation {
             state: state.name.clone(),
             reason: e,
         })?;
-        let (envelope, limits) = envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
-            state: state.name.clone(),
-            reason: e,
-        })?;
+        let (envelope, limits, accel) =
+            envelope(&e, &mass).map_err(|e| AnalysisError::Allocation {
+                state: state.name.clone(),
+                reason: e,
+            })?;
         let required = required_torques(design, &mass, state.motor);
-        let authority = axis_authority(limits.0, limits.1, mass.inertia_diagonal(), &required);
+        let authority = axis_authority(limits.0, limits.1, accel, &required);
         let roll_to_pitch_ratio =
             authority[0].angular_accel_rad_s2 / authority[1].angular_accel_rad_s2;
         states.push(StateReport {
@@ -293,11 +363,16 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             authority,
             roll_to_pitch_ratio,
             droop: at.droop,
+            droop_port: design
+                .ports
+                .get(at.droop_port)
+                .map_or_else(String::new, |p| p.name.clone()),
             ports_within_5_percent: at.ports_within_5_percent,
         });
     }
     let mut assumptions = design.readings.clone();
     assumptions.extend(feed::assumptions(design, &budget));
+    assumptions.extend(MODEL_NOTES.iter().map(|n| n.to_string()));
     let mut findings = findings::findings(design, &budget, &states);
     let manoeuvres = manoeuvre::plan(design, &budget, &states).map_err(AnalysisError::Gas)?;
     if let Some(p) = &manoeuvres {

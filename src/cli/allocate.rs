@@ -7,7 +7,6 @@ use portwright::allocation::Tolerances;
 use portwright::analysis::{self, Analysis};
 use portwright::model::Design;
 use portwright::units::{self, Kind};
-use std::fmt::Write;
 
 /// Parse "ROLL,PITCH,YAW", each a torque with a unit (a bare 0 is accepted).
 pub fn parse_torque(text: &str) -> Result<Vector3<f64>> {
@@ -77,10 +76,12 @@ pub fn run(
     let tau = parse_torque(torque)?;
     let st = pick_state(analysis, state)?;
     let e = analysis::effectiveness(design, &st.mass, &st.ports).map_err(|e| anyhow!(e))?;
-    let mut alloc = MinGasAllocator::new(&e, side_force(side)?, &Tolerances::default())
-        .map_err(|e| anyhow!("{e}"))?;
+    let rule = side_force(side)?;
+    let tol = Tolerances::default();
+    let mut alloc = MinGasAllocator::new(&e, rule, &tol).map_err(|e| anyhow!("{e}"))?;
     let a = alloc.allocate(&tau).context("allocation failed")?;
     let saturated = a.status == AllocationStatus::Saturated;
+    let why = portwright::allocation::saturation::limiter(&e, rule, &tau, &a, &tol);
     if json {
         let v = serde_json::json!({
             "layout": design.name,
@@ -88,47 +89,23 @@ pub fn run(
             "frame": "body axes: +x toward the nose; torques about the state's CG",
             "command_n_m": [tau.x, tau.y, tau.z],
             "achieved_torque_n_m": [a.torque.x, a.torque.y, a.torque.z],
-            "side_force_n": [a.force.x, a.force.y, a.force.z],
+            "side_force_n": [a.force.y, a.force.z],
+            "axial_force_n": a.force.x,
             "gas_rate_kg_s": a.gas_rate_kg_s,
             "scale": a.scale,
             "saturated": saturated,
+            "limited_by": why.code(),
             "duty": design.ports.iter().zip(&a.duty).map(|(p, d)| serde_json::json!({"port": p.name, "duty": d})).collect::<Vec<_>>(),
         });
         return Ok(serde_json::to_string_pretty(&v)? + "\n");
     }
-    let mut s = String::new();
-    let _ = writeln!(
-        s,
-        "least-gas firing for {} at `{}` (torques about the CG, body axes)",
-        design.name, st.name
-    );
-    let _ = writeln!(
-        s,
-        "command   roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
-        tau.x * 1e3,
-        tau.y * 1e3,
-        tau.z * 1e3
-    );
-    let _ = writeln!(
-        s,
-        "achieved  roll {:+.2}  pitch {:+.2}  yaw {:+.2} mN m",
-        a.torque.x * 1e3,
-        a.torque.y * 1e3,
-        a.torque.z * 1e3
-    );
-    if saturated {
-        let _ = writeln!(s, "SATURATED: the command is outside the envelope; {:.1} % of it is produced, in the same direction", a.scale * 100.0);
-    }
-    let _ = writeln!(
-        s,
-        "side force {:+.3} {:+.3} {:+.3} N, gas {:.3} g/s",
-        a.force.x,
-        a.force.y,
-        a.force.z,
-        a.gas_rate_kg_s * 1e3
-    );
-    for (p, d) in design.ports.iter().zip(&a.duty) {
-        let _ = writeln!(s, "  {:<14} duty {:>6.3}", p.name, d);
-    }
-    Ok(s)
+    let names: Vec<String> = design.ports.iter().map(|p| p.name.clone()).collect();
+    Ok(portwright::report::allocate::allocation_text(
+        &design.name,
+        &st.name,
+        &tau,
+        &a,
+        &why,
+        &names,
+    ))
 }

@@ -8,9 +8,10 @@
 use super::firmware::{build_tables, render_c_header, render_csv, render_json, TableNames};
 use super::html::{render_html, Block, Figure, HtmlReport, Section, Table};
 use super::plots::{
-    authority_bars_svg, gas_remaining_svg, port_thrust_svg, torque_envelope_svg, AuthorityBars,
-    EnvelopeSlice, GasRemaining, NamedPlot, Plane, Plot, PlotSettings, PortThrust, StateAuthority,
+    authority_bars_svg, port_thrust_svg, torque_envelope_svg, AuthorityBars, EnvelopeSlice,
+    NamedPlot, Plane, Plot, PlotSettings, PortThrust, StateAuthority,
 };
+use super::plots::{tank_pressure_svg, tank_temperature_svg, TankBlowdown};
 use super::stl::{airframe_stl, drill_axes_stl, exhaust_markers_stl, MarkerSettings, MeshSettings};
 use super::template::{drill_template_svg, TemplateSettings};
 use crate::allocation::onoff::OnOffOptions;
@@ -59,12 +60,9 @@ pub fn envelope_slice(design: &Design, state: &StateReport, plane: Plane) -> Vec
 /// All plots for the report.
 pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, String> {
     let s = PlotSettings::default();
-    // Roll torque is usually far smaller than pitch torque: give each axis its own
-    // scale so the slice is readable (the axis labels carry the numbers).
-    let slice_settings = PlotSettings {
-        envelope_equal_scale: false,
-        ..PlotSettings::default()
-    };
+    // Equal scales on both axes, so the slice's shape is the envelope's true shape
+    // (a thin roll band next to wide pitch and yaw reach is what the ports give).
+    let slice_settings = PlotSettings::default();
     let mut out = Vec::new();
     let e = |e: super::plots::PlotError| e.to_string();
     for st in &analysis.states {
@@ -131,20 +129,59 @@ pub fn plots(design: &Design, analysis: &Analysis) -> Result<Vec<NamedPlot>, Str
         });
     }
     let g = &analysis.gas;
-    let line =
-        |usable: f64, seconds: f64| vec![(0.0, g.inventory_kg), (seconds, g.inventory_kg - usable)];
-    let gas = GasRemaining {
-        layout: design.name.clone(),
-        firing: "all ports open together".to_string(),
-        isothermal_kg: line(g.usable_isothermal_kg, g.firing_time_all_ports_s),
-        adiabatic_kg: line(g.usable_adiabatic_kg, g.firing_time_all_ports_adiabatic_s),
+    // The adiabatic blowdown against time: every port open draws a constant flow
+    // (the regulator holds the manifold), so time is gas expelled over that flow.
+    let flow = if g.firing_time_all_ports_adiabatic_s > 0.0 {
+        g.usable_adiabatic_kg / g.firing_time_all_ports_adiabatic_s
+    } else {
+        0.0
     };
-    out.push(NamedPlot {
-        name: "gas".to_string(),
-        caption: "Gas in the tank against firing time with every port open (isothermal and adiabatic bounds)".to_string(),
-        plot: gas_remaining_svg(&gas, &s).map_err(e)?,
-    });
+    if flow > 0.0 && g.blowdown.len() >= 2 {
+        let blowdown = TankBlowdown {
+            layout: design.name.clone(),
+            firing: "all ports open together".to_string(),
+            points: g
+                .blowdown
+                .iter()
+                .map(|b| (b.expelled_kg / flow, b.pressure_pa, b.temperature_k))
+                .collect(),
+            dropout_pa: g.end_pressure_pa,
+            fill_temperature_k: g.fill_temperature_k,
+        };
+        out.push(NamedPlot {
+            name: "gas".to_string(),
+            caption: "Tank pressure (bar absolute) against firing time with every port open, adiabatic blowdown, and the pressure at which the regulator drops out".to_string(),
+            plot: tank_pressure_svg(&blowdown, &s).map_err(e)?,
+        });
+        out.push(NamedPlot {
+            name: "gas-temperature".to_string(),
+            caption:
+                "Tank temperature against firing time with every port open, adiabatic blowdown"
+                    .to_string(),
+            plot: tank_temperature_svg(&blowdown, &s).map_err(e)?,
+        });
+    }
     Ok(out)
+}
+
+/// Pounds per square inch in pascals.
+const PSI_PA: f64 = 6_894.757_293;
+
+/// `v` to `decimals` places for a table cell: never "-0.0", and "not available"
+/// for a value that is not finite.
+fn number(v: f64, decimals: usize) -> String {
+    if !v.is_finite() {
+        return "not available".to_string();
+    }
+    let t = format!("{v:.decimals$}");
+    if t.trim_start_matches('-')
+        .chars()
+        .all(|c| c == '0' || c == '.')
+    {
+        t.trim_start_matches('-').to_string()
+    } else {
+        t
+    }
 }
 
 fn figure(p: &Plot, caption: &str) -> Block {
@@ -185,7 +222,11 @@ pub fn html_report_with(
                 ],
                 vec![
                     "tank pressure at fill".into(),
-                    format!("{:.1} bar", g.supply_pressure_pa / 1e5),
+                    format!(
+                        "{:.1} bara ({:.0} psia)",
+                        g.supply_pressure_pa / 1e5,
+                        g.supply_pressure_pa / PSI_PA
+                    ),
                 ],
                 vec![
                     "usable, isothermal".into(),
@@ -205,16 +246,56 @@ pub fn html_report_with(
             ],
         })],
     });
+    sections.push(Section {
+        heading: "Mass properties".to_string(),
+        blocks: vec![Block::Table(Table {
+            caption: "per flight state, inertias about that state's CG".to_string(),
+            headers: [
+                "state",
+                "mass (g)",
+                "CG station (mm)",
+                "CG off axis y, z (mm)",
+                "Ixx (kg m²)",
+                "Iyy (kg m²)",
+                "Izz (kg m²)",
+                "gas in tank (g)",
+            ]
+            .map(String::from)
+            .to_vec(),
+            rows: analysis
+                .states
+                .iter()
+                .map(|st| {
+                    let m = &st.mass;
+                    vec![
+                        st.name.clone(),
+                        number(m.mass_kg * 1e3, 1),
+                        number(m.cg_station_m * 1e3, 1),
+                        format!(
+                            "{}, {}",
+                            number(m.cg_y_m * 1e3, 2),
+                            number(m.cg_z_m * 1e3, 2)
+                        ),
+                        number(m.ixx_kg_m2, 5),
+                        number(m.iyy_kg_m2, 4),
+                        number(m.izz_kg_m2, 4),
+                        number(st.gas_in_tank_kg * 1e3, 1),
+                    ]
+                })
+                .collect(),
+        })],
+    });
     for st in &analysis.states {
         let mut blocks = vec![
             Block::Paragraph(format!(
-                "{:.0} m altitude, ambient {:.1} kPa; mass {:.1} g, CG at station {:.1} mm, Ixx {:.5} kg m², Iyy {:.4} kg m².",
+                "{:.0} m altitude, ambient {:.1} kPa abs, manifold {:.2} bara with one valve open, motor {}.",
                 st.altitude_m,
                 st.ambient_pressure_pa / 1e3,
-                st.mass.mass_kg * 1e3,
-                st.mass.cg_station_m * 1e3,
-                st.mass.ixx_kg_m2,
-                st.mass.iyy_kg_m2
+                st.regulated_pressure_pa / 1e5,
+                match st.motor {
+                    crate::model::MotorCondition::Burning => "burning",
+                    crate::model::MotorCondition::Burnout => "burnout",
+                }
             )),
             Block::Table(Table {
                 caption: "ports fired alone".to_string(),
@@ -228,7 +309,7 @@ pub fn html_report_with(
                             format!("{:.3}", p.thrust_n),
                             format!("{:.3}", p.mass_flow_kg_s * 1e3),
                             format!("{:.1}", p.specific_impulse_s),
-                            format!("{:+.1} / {:+.1} / {:+.1}", p.torque_n_m[0] * 1e3, p.torque_n_m[1] * 1e3, p.torque_n_m[2] * 1e3),
+                            p.torque_n_m.map(|v| number(v * 1e3, 1)).join(" / "),
                         ]
                     })
                     .collect(),
@@ -244,9 +325,17 @@ pub fn html_report_with(
                             a.axis.to_string(),
                             format!("{:.1}", a.positive_n_m * 1e3),
                             format!("{:.1}", a.negative_n_m * 1e3),
-                            format!("{:.0}", a.angular_accel_rad_s2.to_degrees()),
-                            format!("{:.2}", a.required_n_m * 1e3),
-                            format!("{:.2}", a.margin),
+                            if a.angular_accel_rad_s2 > 0.0 {
+                                number(a.angular_accel_rad_s2.to_degrees(), 0)
+                            } else {
+                                format!("no {} authority", a.axis)
+                            },
+                            number(a.required_n_m * 1e3, 2),
+                            if a.required_n_m > 0.0 && a.margin.is_finite() {
+                                number(a.margin, 2)
+                            } else {
+                                "none required".to_string()
+                            },
                         ]
                     })
                     .collect(),

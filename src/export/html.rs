@@ -113,6 +113,7 @@ nav a, nav a:visited { color: #2c5a87; }
 aside.cautions { margin: 20px 0; padding: 12px 16px; border: 2px solid #9a6b1e; border-radius: 4px; background: #fbf4e6; }
 aside.cautions h2 { margin: 0 0 6px; border: none; font-size: 17px; color: #6e4a10; }
 aside.cautions ul { margin: 0; padding-left: 20px; }
+.table-wrap { max-width: 100%; overflow-x: auto; }
 table { border-collapse: collapse; margin: 12px 0; font-variant-numeric: tabular-nums; }
 caption { text-align: left; font-weight: bold; padding-bottom: 4px; }
 th, td { padding: 4px 10px; border: 1px solid #d5d9de; text-align: left; vertical-align: top; }
@@ -122,6 +123,7 @@ figure { margin: 16px 0; }
 figure svg { display: block; max-width: 100%; height: auto; border: 1px solid #e1e4e8; }
 figcaption { margin-top: 4px; color: #4a525a; font-size: 14px; }
 footer { margin-top: 36px; color: #6b737b; font-size: 13px; }
+@media (max-width: 600px) { main { padding: 12px 10px 28px; } th, td { padding: 3px 5px; font-size: 13px; } }
 @media print { body { background: #ffffff; } main { max-width: none; padding: 0; } figure { break-inside: avoid; } }
 "#;
 
@@ -261,7 +263,7 @@ fn render_table(h: &mut String, t: &Table, section: &str, number: usize) -> Resu
             found: r.len(),
         });
     }
-    h.push_str("<table>\n");
+    h.push_str("<div class=\"table-wrap\">\n<table>\n");
     if !t.caption.is_empty() {
         h.push_str(&format!("<caption>{}</caption>\n", escape(&t.caption)));
     }
@@ -277,7 +279,7 @@ fn render_table(h: &mut String, t: &Table, section: &str, number: usize) -> Resu
         }
         h.push_str("</tr>\n");
     }
-    h.push_str("</tbody>\n</table>\n");
+    h.push_str("</tbody>\n</table>\n</div>\n");
     Ok(())
 }
 

@@ -1059,6 +1059,107 @@ pub fn gas_remaining_svg(gas: &GasRemaining, s: &PlotSettings) -> Result<Plot, P
     )
 }
 
+/// The tank through an adiabatic blowdown, against firing time.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TankBlowdown {
+    /// Layout name, shown in the title.
+    pub layout: String,
+    /// What is firing, completing "Firing time, …".
+    pub firing: String,
+    /// (firing time s, tank pressure Pa absolute, tank temperature K).
+    pub points: Vec<(f64, f64, f64)>,
+    /// Tank pressure at which the regulator drops out, Pa absolute.
+    pub dropout_pa: f64,
+    /// Fill temperature, K.
+    pub fill_temperature_k: f64,
+}
+
+fn check_blowdown(b: &TankBlowdown) -> Result<(), PlotError> {
+    const WHAT: &str = "tank blowdown";
+    if b.points.len() < 2 {
+        return Err(PlotError::Shape {
+            what: WHAT,
+            reason: "a curve needs at least 2 points",
+        });
+    }
+    let flat: Vec<(f64, f64)> = b
+        .points
+        .iter()
+        .flat_map(|p| [(p.0, p.1), (p.0, p.2)])
+        .collect();
+    check_points(WHAT, &flat)?;
+    if !(b.dropout_pa.is_finite() && b.fill_temperature_k.is_finite()) {
+        return Err(PlotError::Shape {
+            what: WHAT,
+            reason: "the dropout pressure and fill temperature must be finite",
+        });
+    }
+    Ok(())
+}
+
+/// Tank pressure (bar absolute) against firing time through an adiabatic
+/// blowdown, solid, with the regulator's dropout pressure as a dashed level: two
+/// lines that cannot be mistaken for each other.
+pub fn tank_pressure_svg(b: &TankBlowdown, s: &PlotSettings) -> Result<Plot, PlotError> {
+    check_blowdown(b)?;
+    let t_end = b.points.iter().map(|p| p.0).fold(0.0, f64::max);
+    let curves = [
+        Curve {
+            name: "tank pressure, adiabatic blowdown",
+            points: b.points.iter().map(|p| (p.0, p.1 / 1e5)).collect(),
+            colour: SERIES[0],
+            dashed: false,
+        },
+        Curve {
+            name: "regulator drops out",
+            points: vec![(0.0, b.dropout_pa / 1e5), (t_end, b.dropout_pa / 1e5)],
+            colour: SERIES[1],
+            dashed: true,
+        },
+    ];
+    line_chart(
+        s,
+        &format!("Tank pressure: {}", b.layout),
+        &format!("Firing time, {} (s)", b.firing),
+        "Tank pressure (bar absolute)",
+        &curves,
+        true,
+    )
+}
+
+/// Tank temperature (°C) against firing time through an adiabatic blowdown,
+/// solid, with the fill temperature as a dashed level.
+pub fn tank_temperature_svg(b: &TankBlowdown, s: &PlotSettings) -> Result<Plot, PlotError> {
+    check_blowdown(b)?;
+    let t_end = b.points.iter().map(|p| p.0).fold(0.0, f64::max);
+    let c = |k: f64| k - 273.15;
+    let curves = [
+        Curve {
+            name: "tank temperature, adiabatic blowdown",
+            points: b.points.iter().map(|p| (p.0, c(p.2))).collect(),
+            colour: SERIES[0],
+            dashed: false,
+        },
+        Curve {
+            name: "fill temperature",
+            points: vec![
+                (0.0, c(b.fill_temperature_k)),
+                (t_end, c(b.fill_temperature_k)),
+            ],
+            colour: SERIES[1],
+            dashed: true,
+        },
+    ];
+    line_chart(
+        s,
+        &format!("Tank temperature: {}", b.layout),
+        &format!("Firing time, {} (s)", b.firing),
+        "Tank temperature (°C)",
+        &curves,
+        false,
+    )
+}
+
 /// Best score so far against evaluations, drawn as steps (the best only changes
 /// at an evaluation).
 pub fn convergence_svg(conv: &Convergence, s: &PlotSettings) -> Result<Plot, PlotError> {

@@ -413,6 +413,38 @@ fn deg(rad: f64) -> String {
     format!("{:.1}°", rad.to_degrees())
 }
 
+/// The drill's setting for one hole: the jig angle from the surface normal,
+/// acos(cos t · cos a), and, when the hole is not square to the surface, the
+/// direction of the tilt on the surface as an angle measured from the aft
+/// direction toward growing clock (right on the template), in (−180°, 180°]. The
+/// drill's shank tilts the same way as the exhaust leans (the red arrow).
+pub fn jig_setting(port: &Port) -> (f64, Option<f64>) {
+    let e = port.exhaust_direction();
+    let jig = e.dot(&port.normal()).clamp(-1.0, 1.0).acos();
+    let (u, v) = (e.dot(&port.roll_tangent()), -e.x);
+    if u.hypot(v) <= 1e-9 {
+        return (jig, None);
+    }
+    let mut dir = u.atan2(v);
+    if dir <= -std::f64::consts::PI + 1e-12 {
+        dir = std::f64::consts::PI;
+    }
+    (jig, Some(dir))
+}
+
+/// Degrees to one decimal, never "-0.0".
+fn signed_deg(rad: f64) -> String {
+    let d = (rad.to_degrees() * 10.0).round() / 10.0;
+    format!("{:.1}°", if d == 0.0 { 0.0 } else { d })
+}
+
+fn jig_text(port: &Port) -> String {
+    match jig_setting(port) {
+        (_, None) => "jig 0.0° (square)".to_string(),
+        (jig, Some(dir)) => format!("jig {}  tilt {}", signed_deg(jig), signed_deg(dir)),
+    }
+}
+
 fn station_text(station_m: f64, units: TickUnits) -> String {
     match units {
         TickUnits::Millimetres => format!("{:.1} mm", station_m * 1000.0),
@@ -440,13 +472,15 @@ fn notes_and_rulers(svg: &mut Svg, design: &Design, s: &TemplateSettings) {
         "Clock grows to the right: clockwise seen from behind the tail toward the nose."
             .to_string(),
         "Cut on the solid outline, glue the strip under the left edge.".to_string(),
-        "Red arrows: which way each exhaust leans. Circled crosses: page alignment only."
+        "Red arrows: exhaust lean (tilt the drill that way). Circled crosses: page alignment only."
+            .to_string(),
+        "Jig: angle from the normal. Tilt: from aft (down), + toward growing clock (right)."
             .to_string(),
         "Safety: wear eye protection, deburr every hole, check the scale before drilling."
             .to_string(),
     ];
     for (i, l) in lines.iter().enumerate() {
-        svg.text("note", 0.0, 11.5 + 3.6 * i as f64, 2.4, l);
+        svg.text("note", 0.0, 11.5 + 3.3 * i as f64, 2.4, l);
     }
     // Calibration rulers, 2 mm in so the "0" label is not cut at the sheet's edge.
     let x0 = RULER_X_MM;
@@ -559,6 +593,7 @@ fn draw_port(svg: &mut Svg, port: &Port, l: &SheetLayout, s: &TemplateSettings) 
                 fmt3(port.nozzle.hole_diameter_m() * 1000.0)
             ),
         ),
+        (2.1, jig_text(port)),
     ];
     for (i, (size, body)) in texts.iter().enumerate() {
         let _ = writeln!(
@@ -977,6 +1012,58 @@ mod tests {
         assert!(dx.abs() < 1e-3 && dy < -6.9, "{dx} {dy}");
         // aft-2: no cant, no arrow.
         assert!(lean(&doc, "aft-2").is_none());
+    }
+
+    #[test]
+    fn each_hole_prints_its_jig_angle_and_tilt() {
+        let d = fixture::design();
+        let pages = drill_template_svg(&d, &single()).unwrap();
+        let doc = Document::parse(&pages[0]).unwrap();
+        for port in &d.ports {
+            let (t, a) = (port.tangential_cant_rad, port.axial_cant_rad);
+            // By hand from the README's combined-cant formula
+            // e = n cos t cos a − r̂ sin t cos a − x̂ sin a: the angle from the normal is
+            // acos(e·n) = acos(cos t cos a); on the surface, e·r̂ = −sin t cos a
+            // (toward growing clock) and −e·x̂ = sin a (toward aft).
+            let jig = (t.cos() * a.cos()).acos().to_degrees();
+            let (u, v) = (-t.sin() * a.cos(), a.sin());
+            let g = by_id(&doc, &format!("port-{}", port.name));
+            let text: String = g
+                .descendants()
+                .filter(|n| n.is_text())
+                .map(|n| n.text().unwrap().to_string())
+                .collect::<Vec<_>>()
+                .join(" ");
+            if u.hypot(v) < 1e-12 {
+                assert!(text.contains("jig 0.0° (square)"), "{text}");
+                continue;
+            }
+            let mut tilt = u.atan2(v).to_degrees();
+            if tilt <= -180.0 + 1e-9 {
+                tilt = 180.0;
+            }
+            let want = format!("jig {jig:.1}°  tilt {tilt:.1}°");
+            assert!(text.contains(&want), "{}: {text} (want {want})", port.name);
+            // The tilt is the lean arrow's direction on the paper (x right, y aft).
+            let (dx, dy) = lean(&doc, &port.name).unwrap();
+            let arrow = dx.atan2(dy).to_degrees();
+            let diff = (arrow - tilt + 540.0).rem_euclid(360.0) - 180.0;
+            // The arrow's end points are written to 0.001 mm over 7 mm: 0.02°.
+            assert!(diff.abs() < 0.02, "{}: {arrow} vs {tilt}", port.name);
+        }
+        // Hand values for the fixture: fore-1 (t = +10°, a = 0) tilts toward
+        // falling clock, −90°; aft-1 (a = −8°) toward the nose, 180°.
+        let fore = d.ports.iter().find(|p| p.name == "fore-1").unwrap();
+        let (jig, dir) = jig_setting(fore);
+        assert!((jig.to_degrees() - 10.0).abs() < 1e-9);
+        assert!((dir.unwrap().to_degrees() + 90.0).abs() < 1e-9);
+        let aft = d.ports.iter().find(|p| p.name == "aft-1").unwrap();
+        assert!((jig_setting(aft).1.unwrap().to_degrees() - 180.0).abs() < 1e-9);
+        assert!(
+            jig_setting(d.ports.iter().find(|p| p.name == "aft-2").unwrap())
+                .1
+                .is_none()
+        );
     }
 
     #[test]

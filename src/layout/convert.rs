@@ -226,6 +226,8 @@ pub fn to_design(raw: &LayoutFile, text: &str) -> Result<Design, Vec<Diagnostic>
             states,
             manoeuvres,
             readings: r.readings,
+            // `layout::parse_str` puts the `[limits]` value here once that section is read.
+            max_cant_rad: crate::optimize::constraints::Limits::default().max_total_cant_rad,
         })
     } else {
         r.problems.sort_by_key(|p| (p.line, p.column));
@@ -759,6 +761,15 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
         ]
         .iter()
         .all(|v| v.is_finite());
+        let cants_in_range = tang.abs() <= std::f64::consts::FRAC_PI_2 + 1e-9
+            && axial.abs() <= std::f64::consts::FRAC_PI_2 + 1e-9;
+        if all_finite
+            && cants_in_range
+            && airframe.outer_diameter_m.is_finite()
+            && airframe.inner_diameter_m.is_finite()
+        {
+            check_drilling(r, airframe, &port, p, &field);
+        }
         if all_finite && airframe.outer_diameter_m.is_finite() && airframe.tube_length_m.is_finite()
         {
             match first_conflict(airframe, &port, PLACEMENT_MARGIN_M) {
@@ -790,6 +801,37 @@ fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port
         ports.push(port);
     }
     ports
+}
+
+/// The hole must pass through the wall into the bore (see `airframe::drilling`);
+/// the problem is put on the field that sets it.
+fn check_drilling(
+    r: &mut Reader,
+    airframe: &Airframe,
+    port: &Port,
+    p: &crate::layout::file::PortFile,
+    field: &str,
+) {
+    use crate::airframe::drilling::{check, DrillProblem};
+    let Err(problem) = check(airframe, port) else {
+        return;
+    };
+    let (span, name) = match problem {
+        DrillProblem::WiderThanBore { .. } => match (&p.hole, &p.exit) {
+            (Some(h), _) => (h.span(), "hole"),
+            (None, Some(e)) => (e.span(), "exit"),
+            (None, None) => (p.station.span(), "station"),
+        },
+        DrillProblem::MissesBore { .. } => match &p.tangential_cant {
+            Some(q) => (q.span(), "tangential_cant"),
+            None => (p.station.span(), "station"),
+        },
+        DrillProblem::AxialTooSteep { .. } => match &p.axial_cant {
+            Some(q) => (q.span(), "axial_cant"),
+            None => (p.station.span(), "station"),
+        },
+    };
+    r.problem(span, &format!("{field}.{name}"), problem.to_string());
 }
 
 fn read_requirements(r: &mut Reader, q: &RequirementsFile) -> Requirements {

@@ -162,20 +162,25 @@ pub fn parse_str_as_drawn(text: &str, source_name: &str) -> Result<Design, Layou
     let design = convert::to_design(&raw, text);
     // The optimiser's sections are checked here too, so every command rejects a
     // bad one, not only `optimize`.
-    let sections = crate::optimize::sections_from_str(text)
-        .err()
-        .map(|e| Diagnostic {
-            line: e.line.max(1),
-            column: e.column.max(1),
-            field: if e.field.is_empty() {
-                e.section.clone()
-            } else {
-                format!("{}.{}", e.section, e.field)
-            },
-            message: e.message.clone(),
-        });
+    let sections = crate::optimize::sections_from_str(text);
+    let max_cant_rad = sections.as_ref().ok().map(|s| s.limits.max_total_cant_rad);
+    let sections = sections.err().map(|e| Diagnostic {
+        line: e.line.max(1),
+        column: e.column.max(1),
+        field: if e.field.is_empty() {
+            e.section.clone()
+        } else {
+            format!("{}.{}", e.section, e.field)
+        },
+        message: e.message.clone(),
+    });
     match (design, sections) {
-        (Ok(d), None) => Ok(d),
+        (Ok(mut d), None) => {
+            if let Some(m) = max_cant_rad {
+                d.max_cant_rad = m;
+            }
+            Ok(d)
+        }
         (Ok(_), Some(p)) => Err(vec![p]),
         (Err(mut problems), extra) => {
             problems.extend(extra);

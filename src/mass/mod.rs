@@ -115,12 +115,22 @@ pub struct MassSummary {
     pub mass_kg: f64,
     /// CG station, m.
     pub cg_station_m: f64,
+    /// CG offset from the body axis along +y (toward clock 0°), m.
+    pub cg_y_m: f64,
+    /// CG offset from the body axis along +z (toward clock 90°), m.
+    pub cg_z_m: f64,
     /// Roll inertia about the CG, kg·m².
     pub ixx_kg_m2: f64,
     /// Pitch inertia about the CG, kg·m².
     pub iyy_kg_m2: f64,
     /// Yaw inertia about the CG, kg·m².
     pub izz_kg_m2: f64,
+    /// Inertia tensor element I_xy = −Σ m·(x − x_cg)(y − y_cg) about the CG, kg·m².
+    pub ixy_kg_m2: f64,
+    /// Inertia tensor element I_xz = −Σ m·(x − x_cg)(z − z_cg) about the CG, kg·m².
+    pub ixz_kg_m2: f64,
+    /// Inertia tensor element I_yz = −Σ m·(y − y_cg)(z − z_cg) about the CG, kg·m².
+    pub iyz_kg_m2: f64,
     /// Whether any value came from a measured override.
     pub overridden: bool,
 }
@@ -129,19 +139,52 @@ impl MassSummary {
     /// Summarise computed properties.
     pub fn from_properties(p: &MassProperties) -> Self {
         let i = p.inertia_about_cg();
+        let cg = p.cg();
+        // Parts placed by clock angle leave round-off (cos 90° is 6e-17, not 0):
+        // lateral CG offsets below 1 pm and products of inertia below 1e-12 of the
+        // trace are that round-off, not geometry, and are shown as zero.
+        let lateral = |v: f64| if v.abs() < 1e-12 { 0.0 } else { v };
+        let trace = i.trace().abs();
+        let product = |v: f64| if v.abs() <= 1e-12 * trace { 0.0 } else { v };
         Self {
             mass_kg: p.mass_kg(),
             cg_station_m: p.cg_station_m(),
+            cg_y_m: lateral(cg.y),
+            cg_z_m: lateral(cg.z),
             ixx_kg_m2: i[(0, 0)],
             iyy_kg_m2: i[(1, 1)],
             izz_kg_m2: i[(2, 2)],
+            ixy_kg_m2: product(i[(0, 1)]),
+            ixz_kg_m2: product(i[(0, 2)]),
+            iyz_kg_m2: product(i[(1, 2)]),
             overridden: false,
         }
     }
 
-    /// The CG as a body-frame point on the axis, m.
+    /// The CG as a body-frame point, all three coordinates, m. Every torque is
+    /// taken about this point.
     pub fn cg(&self) -> Vector3<f64> {
-        Vector3::new(-self.cg_station_m, 0.0, 0.0)
+        Vector3::new(-self.cg_station_m, self.cg_y_m, self.cg_z_m)
+    }
+
+    /// Distance of the CG from the body axis, m.
+    pub fn cg_offset_m(&self) -> f64 {
+        self.cg_y_m.hypot(self.cg_z_m)
+    }
+
+    /// The full inertia tensor about the CG, body axes, kg·m².
+    pub fn inertia_tensor(&self) -> Matrix3<f64> {
+        Matrix3::new(
+            self.ixx_kg_m2,
+            self.ixy_kg_m2,
+            self.ixz_kg_m2,
+            self.ixy_kg_m2,
+            self.iyy_kg_m2,
+            self.iyz_kg_m2,
+            self.ixz_kg_m2,
+            self.iyz_kg_m2,
+            self.izz_kg_m2,
+        )
     }
 
     /// Diagonal inertia, kg·m².

@@ -222,6 +222,15 @@ pub enum Breach {
         /// Limit, rad.
         max_rad: f64,
     },
+    /// The hole does not pass through the wall into the bore (see
+    /// `airframe::drilling`).
+    ThroughWall {
+        /// |Tangential cant|, rad.
+        tangential_rad: f64,
+        /// Through-wall limit for this tube and hole, rad (0 when the hole is
+        /// not narrower than the bore).
+        limit_rad: f64,
+    },
     /// The exhaust cone turns back into the tube.
     PlumeIntoTube {
         /// Total cant plus cone half-angle, rad (must stay below 90°).
@@ -281,6 +290,15 @@ impl fmt::Display for Violation {
                     deg(*max_rad)
                 )
             }
+            Breach::ThroughWall {
+                tangential_rad,
+                limit_rad,
+            } => write!(
+                f,
+                "tangential cant {:.1}° is past the through-wall limit {:.1}° for this tube and hole",
+                deg(*tangential_rad),
+                deg(*limit_rad)
+            ),
             Breach::PlumeIntoTube {
                 edge_from_normal_rad,
             } => write!(
@@ -312,6 +330,10 @@ enum Found {
     },
     Cant {
         total_rad: f64,
+    },
+    ThroughWall {
+        tangential_rad: f64,
+        limit_rad: f64,
     },
     PlumeIntoTube {
         edge_rad: f64,
@@ -438,6 +460,13 @@ impl Constraints {
                     total_rad,
                     max_rad: self.limits.max_total_cant_rad,
                 },
+                Found::ThroughWall {
+                    tangential_rad,
+                    limit_rad,
+                } => Breach::ThroughWall {
+                    tangential_rad,
+                    limit_rad,
+                },
                 Found::PlumeIntoTube { edge_rad } => Breach::PlumeIntoTube {
                     edge_from_normal_rad: edge_rad,
                 },
@@ -463,6 +492,10 @@ impl Constraints {
                 other,
             } => (required_m - distance_m) / (0.5 * (d + ports[other].nozzle.hole_diameter_m())),
             Found::Cant { total_rad } => total_rad - self.limits.max_total_cant_rad,
+            Found::ThroughWall {
+                tangential_rad,
+                limit_rad,
+            } => tangential_rad - limit_rad + self.limits.tolerances.angle_rad,
             Found::PlumeIntoTube { edge_rad } => edge_rad - FRAC_PI_2,
             // Inside the cone the amount grows with how far the axis is from the
             // plate's edge, so the search is drawn out of the plate, not only off it.
@@ -521,6 +554,24 @@ impl Constraints {
                 if total_rad - lim.max_total_cant_rad > tol.angle_rad {
                     f(k, Found::Cant { total_rad });
                 }
+            }
+            let limit_rad = crate::airframe::drilling::through_wall_limit_rad(
+                radius,
+                self.airframe.inner_diameter_m / 2.0,
+                d,
+            )
+            .unwrap_or(0.0);
+            let tangential_rad = port.tangential_cant_rad.abs();
+            // Kept a tolerance inside the limit, so the written layout also passes
+            // the reader's strict check |t| < limit.
+            if tangential_rad - limit_rad > -tol.angle_rad {
+                f(
+                    k,
+                    Found::ThroughWall {
+                        tangential_rad,
+                        limit_rad,
+                    },
+                );
             }
             let edge_rad = cos_total.acos() + alpha;
             if edge_rad - FRAC_PI_2 > tol.angle_rad {
@@ -685,6 +736,31 @@ mod tests {
     }
 
     #[test]
+    fn tangential_cant_past_the_through_wall_limit_breaks_a_rule() {
+        // 54 × 51 mm tube, 1.6 mm hole: limit asin((25.5 − 0.8)/27) = 66.18°
+        // (pocket calculator). Raise max_cant so only the wall rule can bite.
+        let d = demo();
+        let limits = Limits {
+            max_total_cant_rad: 80f64.to_radians(),
+            plume_half_angle_rad: 0.0,
+            ..Limits::default()
+        };
+        let c = Constraints::new(&d.airframe, limits).unwrap();
+        let mut p = hole("a", 0.40, 0.0);
+        p.tangential_cant_rad = 66.0f64.to_radians();
+        assert!(c.is_feasible(std::slice::from_ref(&p)));
+        p.tangential_cant_rad = -66.4f64.to_radians();
+        let v = c.violations(std::slice::from_ref(&p));
+        assert_eq!(v.len(), 1, "{v:?}");
+        match &v[0].breach {
+            Breach::ThroughWall { limit_rad, .. } => {
+                assert!((limit_rad.to_degrees() - 66.18).abs() < 0.01)
+            }
+            other => panic!("unexpected {other:?}"),
+        }
+    }
+
+    #[test]
     fn spacing_is_three_diameters_measured_as_a_chord() {
         // Radius 27 mm, 1.6 mm holes: 4.8 mm needed; chord 2·27·sin(Δ/2).
         let d = demo();
@@ -760,19 +836,22 @@ mod tests {
         let v = rules(&d).violations(&[p.clone()]);
         assert_eq!(v.len(), 1);
         assert_relative_eq!(v[0].amount, 1f64.to_radians(), epsilon = 1e-9);
-        // Allow 89° of cant: 80° + 15° half-angle = 95° turns into the tube.
+        // Allow 89° of cant: 80° + 15° half-angle = 95° turns into the tube. The
+        // steep cant is axial (toward the nose), since a tangential cant this steep
+        // could not pass through this tube's wall at all.
         let limits = Limits {
             max_total_cant_rad: 89f64.to_radians(),
             ..Limits::default()
         };
-        p.tangential_cant_rad = 80f64.to_radians();
+        p.tangential_cant_rad = 0.0;
+        p.axial_cant_rad = -80f64.to_radians();
         let v = Constraints::new(&d.airframe, limits)
             .unwrap()
             .violations(&[p.clone()]);
         assert_eq!(v.len(), 1);
         assert!(matches!(v[0].breach, Breach::PlumeIntoTube { .. }));
         assert_relative_eq!(v[0].amount, 5f64.to_radians(), epsilon = 1e-9);
-        p.tangential_cant_rad = 74f64.to_radians();
+        p.axial_cant_rad = -74f64.to_radians();
         assert!(Constraints::new(&d.airframe, limits)
             .unwrap()
             .is_feasible(&[p]));

@@ -117,7 +117,11 @@ fn run(cli: Cli) -> Result<()> {
             eprintln!("wrote {}", target.display());
             Ok(())
         }
-        Command::Run { layout, out, paper } => {
+        Command::Run {
+            layout,
+            out,
+            template,
+        } => {
             eprintln!("reading {}", layout.display());
             let design = layout::load(&layout)?;
             eprintln!("analysing: mass properties, gas, port flows, envelopes");
@@ -142,7 +146,7 @@ fn run(cli: Cli) -> Result<()> {
             let files = portwright::export::bundle::bundle_with(
                 &design,
                 &analysis,
-                &template_settings(paper),
+                &template.settings(),
                 &sections,
                 extra,
             )
@@ -184,6 +188,21 @@ fn run(cli: Cli) -> Result<()> {
             }
             Ok(())
         }
+        Command::Template {
+            layout,
+            out,
+            template,
+        } => {
+            let design = layout::load(&layout)?;
+            for (name, bytes) in cli::template::files(&design, &template)
+                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?
+            {
+                let path = out.join(&name);
+                write_atomic(&path, &bytes, &[&layout], false)?;
+                println!("wrote {} ({} bytes)", path.display(), bytes.len());
+            }
+            Ok(())
+        }
         Command::Analyze { layout, json, out } => {
             let design = layout::load(&layout)?;
             let analysis = portwright::analysis::analyze(&design)
@@ -199,16 +218,5 @@ fn run(cli: Cli) -> Result<()> {
             }
             Ok(())
         }
-    }
-}
-
-fn template_settings(paper: cli::PaperSize) -> portwright::export::template::TemplateSettings {
-    use portwright::export::template::{Paper, TemplateSettings};
-    TemplateSettings {
-        paper: match paper {
-            cli::PaperSize::A4 => Paper::A4,
-            cli::PaperSize::Letter => Paper::Letter,
-        },
-        ..TemplateSettings::default()
     }
 }

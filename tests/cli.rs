@@ -489,3 +489,88 @@ fn optimize_improves_both_demos_and_says_by_how_much() {
         run_ok(&["analyze", new.to_str().unwrap()]);
     }
 }
+
+/// The template alone: PDF and SVG pages at the paper's size, the print options
+/// reach the pages, and a wrong option value is a command-line error.
+#[test]
+fn template_command_writes_pdf_and_pages_with_the_print_options() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("t");
+    let o = out.to_str().unwrap();
+    run_ok(&[
+        "template",
+        "layouts/osprey-98.toml",
+        "--out",
+        o,
+        "--paper",
+        "letter",
+        "--landscape",
+    ]);
+    let pdf = std::fs::read(out.join("drill-template.pdf")).unwrap();
+    let text = String::from_utf8_lossy(&pdf);
+    // US Letter turned: 11 × 8.5 in = 792 × 612 pt.
+    assert!(text.contains("/MediaBox [0 0 792 612]"), "MediaBox");
+    let page = std::fs::read_to_string(out.join("drill-template-1.svg")).unwrap();
+    assert!(page.contains(r#"width="279.400mm" height="215.900mm""#));
+    // Letter labels stations in inches (and mm).
+    assert!(page.contains("stations in inches"));
+    assert!(page.contains("row 1, column 1 (of "));
+    let single = dir.path().join("s");
+    run_ok(&[
+        "template",
+        "layouts/heron-54.toml",
+        "--out",
+        single.to_str().unwrap(),
+        "--single-sheet",
+        "--ruler-unit",
+        "mm",
+    ]);
+    assert!(single.join("drill-template-1.svg").exists());
+    assert!(!single.join("drill-template-2.svg").exists());
+    let bad = portwright()
+        .args([
+            "template",
+            "layouts/heron-54.toml",
+            "--out",
+            o,
+            "--ruler-unit",
+            "cm",
+        ])
+        .output()
+        .unwrap();
+    assert_eq!(bad.status.code(), Some(2));
+}
+
+/// The file `optimize` writes is the file it checked: optimising again from it
+/// starts from a layout that meets every rule, and drills read back as drills.
+#[test]
+fn optimize_again_from_its_own_output_starts_feasible() {
+    let dir = tempfile::tempdir().unwrap();
+    let first = dir.path().join("first.toml");
+    let second = dir.path().join("second.toml");
+    for seed in ["2", "7"] {
+        let report = run_ok(&[
+            "optimize",
+            "layouts/heron-54.toml",
+            "--out",
+            first.to_str().unwrap(),
+            "--seed",
+            seed,
+            "--max-evals",
+            "600",
+        ]);
+        assert!(!report.contains("starting layout breaks"), "{report}");
+        let again = run_ok(&[
+            "optimize",
+            first.to_str().unwrap(),
+            "--out",
+            second.to_str().unwrap(),
+            "--seed",
+            seed,
+            "--max-evals",
+            "600",
+        ]);
+        assert!(!again.contains("starting layout breaks"), "{again}");
+        run_ok(&["analyze", second.to_str().unwrap()]);
+    }
+}

@@ -637,6 +637,22 @@ impl MarginScore {
     }
 }
 
+impl crate::optimize::stages::StagedScore for MarginScore {
+    type Stage = MarginScore;
+    fn stage_count(&self) -> usize {
+        self.objective.stages.len()
+    }
+    fn stage(&self, k: usize, floors: &[f64]) -> Self {
+        self.for_stage(k, floors)
+    }
+    fn stage_values(&self, ports: &[Port]) -> Vec<f64> {
+        MarginScore::stage_values(self, ports)
+    }
+    fn floor(&self, best: f64) -> f64 {
+        MarginScore::floor(self, best)
+    }
+}
+
 impl crate::optimize::problem::LayoutScore for MarginScore {
     type Scratch = MeritScratch;
     fn scratch(&self) -> Self::Scratch {

@@ -4,6 +4,7 @@ pub mod allocate;
 pub mod optimize;
 pub mod output;
 pub mod table;
+pub mod template;
 pub mod tolerance;
 
 use clap::{Parser, Subcommand};
@@ -28,9 +29,20 @@ pub enum Command {
         /// Folder to write into.
         #[arg(long)]
         out: PathBuf,
-        /// Paper for the drilling template pages.
-        #[arg(long, value_enum, default_value = "a4")]
-        paper: PaperSize,
+        /// How the drilling template is printed.
+        #[command(flatten)]
+        template: template::TemplateArgs,
+    },
+    /// The 1:1 drilling template alone, as SVG pages and one PDF.
+    Template {
+        /// Layout file (TOML).
+        layout: PathBuf,
+        /// Folder to write into.
+        #[arg(long)]
+        out: PathBuf,
+        /// How the drilling template is printed.
+        #[command(flatten)]
+        template: template::TemplateArgs,
     },
     /// Mass properties, gas budget, per-port thrust, torques, authority and findings.
     Analyze {
@@ -153,13 +165,4 @@ pub enum TableFormat {
     Csv,
     /// JSON.
     Json,
-}
-
-/// Paper sizes for the drilling template.
-#[derive(Debug, Clone, Copy, clap::ValueEnum)]
-pub enum PaperSize {
-    /// ISO A4.
-    A4,
-    /// US Letter.
-    Letter,
 }

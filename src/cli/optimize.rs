@@ -10,11 +10,13 @@ use portwright::export::plots::{best_so_far, convergence_svg, Convergence, PlotS
 use portwright::layout;
 use portwright::model::Design;
 use portwright::optimize::constraints::{Constraints, Limits};
-use portwright::optimize::search::{Outcome, SearchSettings};
-use portwright::optimize::{optimize, sections_from_str, SectionError, Sections};
+use portwright::optimize::search::Outcome;
+use portwright::optimize::variables::DrillSeries;
+use portwright::optimize::{
+    optimize_stages, sections_from_str, SectionError, Sections, StagedSettings,
+};
 use std::fmt::Write;
-use std::sync::atomic::{AtomicBool, Ordering};
-use std::time::Duration;
+use std::sync::atomic::AtomicBool;
 
 /// What the command produced.
 pub struct Optimised {
@@ -211,72 +213,76 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
     };
 
     // One search per stage of the objective; later stages start from the earlier
-    // answer and keep the earlier stages within `then_within` of their best.
+    // answer, keep the earlier stages within `then_within` of their best, and are
+    // kept only when they improve their own value.
     let stages = objective.stages.len();
     let bar = ProgressBar::new(max_evals as u64);
     bar.set_style(
         ProgressStyle::with_template("{bar:40} {pos}/{len} evaluations  {msg}")
             .unwrap_or_else(|_| ProgressStyle::default_bar()),
     );
-    let mut current = design.clone();
-    let mut floors = Vec::new();
-    let mut outcomes: Vec<Outcome> = Vec::new();
-    let mut done = 0usize;
-    for k in 0..stages {
-        let budget = if k + 1 == stages {
-            max_evals - done
-        } else {
-            (max_evals / stages).max(2)
-        };
-        let settings = SearchSettings {
-            seed: seed.wrapping_add(k as u64),
-            max_evaluations: budget.max(2),
-            time_limit: time_limit.map(|t| Duration::from_secs_f64(t / stages as f64)),
-            ..SearchSettings::default()
-        };
+    let mut progress = |k: usize, done: usize, p: &portwright::optimize::search::Progress| {
         let label = if stages > 1 {
             format!("stage {}/{stages} ", k + 1)
         } else {
             String::new()
         };
-        let offset = done as u64;
-        let mut progress = |p: &portwright::optimize::search::Progress| {
-            bar.set_position(offset + p.evaluations as u64);
-            let best = if p.best.is_feasible() {
-                format!("{label}best objective {:.4}", p.best.merit)
-            } else {
-                format!("{label}no feasible layout yet")
-            };
-            bar.set_message(format!(
-                "{best}, {:.0} evaluations/s",
-                p.evaluations_per_second
-            ));
+        bar.set_position((done + p.evaluations) as u64);
+        let best = if p.best.is_feasible() {
+            format!("{label}best objective {:.4}", p.best.merit)
+        } else {
+            format!("{label}no feasible layout yet")
         };
-        let result = optimize(
-            &current,
-            &freedoms,
-            limits,
-            base.for_stage(k, &floors),
-            &settings,
-            stop,
-            &mut progress,
-        )?;
-        done += result.outcome.evaluations;
-        floors.push(base.floor(base.stage_values(&result.design.ports)[k]));
-        current = result.design;
-        outcomes.push(result.outcome);
-        if stop.load(Ordering::SeqCst) {
-            break;
-        }
-    }
+        bar.set_message(format!(
+            "{best}, {:.0} evaluations/s",
+            p.evaluations_per_second
+        ));
+    };
+    let staged = optimize_stages(
+        &design,
+        &freedoms,
+        limits,
+        &base,
+        StagedSettings {
+            seed,
+            max_evaluations: max_evals,
+            time_limit_s: time_limit,
+        },
+        stop,
+        &mut progress,
+    )?;
     bar.finish_and_clear();
+    let current = staged.design;
+    let kept: Vec<bool> = staged.stages.iter().map(|s| s.kept).collect();
+    let outcomes: Vec<Outcome> = staged.stages.into_iter().map(|s| s.outcome).collect();
 
-    let new_text = layout::write::with_ports(text, &current.ports)?;
-    // The written layout must read back and analyse like any other.
+    let new_text = layout::write::with_ports_noted(text, &current.ports, DrillSeries::drill_name)?;
+    // The file that is written is the file that is checked: read the exact text
+    // back and check every rule on what it says.
     let reread = layout::parse_str(&new_text, source)?;
+    let broken = Constraints::new(&reread.airframe, limits)?.violations(&reread.ports);
+    if !broken.is_empty() {
+        bail!(
+            "the layout as written breaks {} rule(s), so it was not written: {}",
+            broken.len(),
+            broken
+                .iter()
+                .map(|v| v.to_string())
+                .collect::<Vec<_>>()
+                .join("; ")
+        );
+    }
     let after = analysis::analyze(&reread)?;
     let plot_svg = plot(&design, &objective, &outcomes[0]);
-    let active = active_constraints(&reread, limits);
+    let notes = Notes {
+        active: active_constraints(&reread, limits),
+        start_breaks: Constraints::new(&design.airframe, limits)?
+            .violations(&design.ports)
+            .iter()
+            .map(|v| v.to_string())
+            .collect(),
+        kept,
+    };
     let b = summarize(&design, &before, &objective, side, spread.clone())?;
     let a = summarize(&reread, &after, &objective, side, spread)?;
     let report = report(
@@ -285,7 +291,7 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
         (&b, &a),
         (&objective, side),
         &outcomes,
-        &active,
+        &notes,
         opts.json,
     )?;
     Ok(Optimised {
@@ -293,6 +299,16 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
         report,
         plot_svg,
     })
+}
+
+/// What the report says besides the numbers.
+struct Notes {
+    /// Rules holding the optimum in place.
+    active: Vec<String>,
+    /// Rules the starting layout breaks (which rule, which port, by how much).
+    start_breaks: Vec<String>,
+    /// Per stage: whether its answer was kept.
+    kept: Vec<bool>,
 }
 
 /// Best objective against evaluations for the first (most important) stage.
@@ -391,9 +407,10 @@ fn report(
     (before, after): (&Summary, &Summary),
     (objective, side): (&Objective, SideForceLimit),
     outcomes: &[Outcome],
-    active: &[String],
+    notes: &Notes,
     json: bool,
 ) -> Result<String> {
+    let active = &notes.active;
     let wrap = portwright::airframe::placement::wrap_angle;
     let evaluations: usize = outcomes.iter().map(|o| o.evaluations).sum();
     let elapsed: f64 = outcomes.iter().map(|o| o.elapsed.as_secs_f64()).sum();
@@ -433,6 +450,8 @@ fn report(
                 "elapsed_s": o.elapsed.as_secs_f64(),
                 "best": o.score.merit,
             })).collect::<Vec<_>>(),
+            "stages_kept": notes.kept,
+            "start_breaks_rules": notes.start_breaks,
             "elapsed_s": elapsed,
             "before": summary_json(before),
             "after": summary_json(after),
@@ -468,6 +487,25 @@ fn report(
         "  side-force limit on the allocations: {}",
         side_text(side)
     );
+    for (k, kept) in notes.kept.iter().enumerate().skip(1) {
+        if !kept {
+            let _ = writeln!(
+                s,
+                "  stage {} could not improve its value by more than round-off: the answer of stage {k} is kept",
+                k + 1
+            );
+        }
+    }
+    if !notes.start_breaks.is_empty() {
+        let _ = writeln!(
+            s,
+            "  the starting layout breaks {} rule(s); the search started from an infeasible layout:",
+            notes.start_breaks.len()
+        );
+        for b in &notes.start_breaks {
+            let _ = writeln!(s, "    {b}");
+        }
+    }
     let _ = writeln!(
         s,
         "per flight state and axis, before -> after (weaker sense):"

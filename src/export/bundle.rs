@@ -477,6 +477,11 @@ pub fn bundle_with(
             .map_err(|e| e.to_string())?,
     );
     let pages = drill_template_svg(design, template).map_err(|e| e.to_string())?;
+    push(
+        "drill-template.pdf",
+        super::pdf::svg_pages_to_pdf(&pages, &format!("Drilling template: {}", design.name))
+            .map_err(|e| e.to_string())?,
+    );
     for (k, page) in pages.into_iter().enumerate() {
         push(&format!("drill-template-{}.svg", k + 1), page.into_bytes());
     }

@@ -20,6 +20,7 @@ pub mod bundle;
 pub mod firmware;
 pub mod html;
 pub mod mesh;
+pub mod pdf;
 pub mod plots;
 pub mod stl;
 pub mod template;
@@ -133,6 +134,14 @@ pub enum ExportError {
     /// The STL encoder failed.
     #[error("writing STL: {0}")]
     Encode(String),
+    /// An SVG page could not be read for the PDF (a bug if it ever happens: the pages are our own).
+    #[error("drill template page {page} for PDF: {reason}")]
+    Pdf {
+        /// 1-based page.
+        page: usize,
+        /// What the SVG reader said.
+        reason: String,
+    },
 }
 
 pub use crate::airframe::profile_radius;

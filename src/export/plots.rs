@@ -1200,7 +1200,7 @@ pub fn convergence_svg(conv: &Convergence, s: &PlotSettings) -> Result<Plot, Plo
 // ---------------------------------------------------------------------------
 // PNG
 
-fn font_database() -> Arc<resvg::usvg::fontdb::Database> {
+pub(crate) fn font_database() -> Arc<resvg::usvg::fontdb::Database> {
     static DB: OnceLock<Arc<resvg::usvg::fontdb::Database>> = OnceLock::new();
     DB.get_or_init(|| {
         let mut db = resvg::usvg::fontdb::Database::new();

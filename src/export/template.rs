@@ -99,10 +99,16 @@ impl Default for TemplateSettings {
 
 /// Height of the strip at the bottom of each paper page that holds its label, mm.
 const PAGE_LABEL_MM: f64 = 5.0;
+/// Pitch of the note lines, mm.
+const NOTE_PITCH_MM: f64 = 3.3;
+/// Baseline of the millimetre ruler (below ten note lines), mm.
+const RULER_MM_Y: f64 = 49.0;
+/// Baseline of the inch ruler, mm.
+const RULER_IN_Y: f64 = 62.0;
 /// Height of the notes-and-rulers block above the surface, mm.
-const HEADER_MM: f64 = 67.0;
+const HEADER_MM: f64 = 74.0;
 /// Narrowest sheet, so the notes and the 4 in ruler fit, mm.
-const HEADER_WIDTH_MM: f64 = 125.0;
+const HEADER_WIDTH_MM: f64 = 140.0;
 /// Space below the surface, mm.
 const FOOT_MM: f64 = 6.0;
 /// Left end of both calibration rulers on the sheet, mm.
@@ -320,6 +326,86 @@ fn esc(text: &str) -> String {
     out
 }
 
+/// Estimated advance of one character, in ems, used to size every label's box.
+/// DejaVu Sans (the face bundled for rendering) has digits of 0.636 em and most
+/// lower-case letters narrower (from memory); 0.64 em bounds typical label text.
+pub const TEXT_EM_WIDTH: f64 = 0.64;
+/// Height of a label's box above its baseline, in ems (DejaVu Sans ascender
+/// 0.76 em, rounded up; from memory).
+pub const TEXT_ASCENT_EM: f64 = 0.8;
+/// Depth of a label's box below its baseline, in ems (descender 0.24 em; from memory).
+pub const TEXT_DESCENT_EM: f64 = 0.25;
+/// Least gap kept between the boxes of any two printed marks or labels, mm.
+pub const CLEARANCE_MM: f64 = 0.5;
+
+/// An axis-aligned box on the sheet, mm.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Bounds {
+    /// Left.
+    pub x0: f64,
+    /// Top.
+    pub y0: f64,
+    /// Right.
+    pub x1: f64,
+    /// Bottom.
+    pub y1: f64,
+}
+
+impl Bounds {
+    /// The box from two corners in any order.
+    pub fn new(xa: f64, ya: f64, xb: f64, yb: f64) -> Self {
+        Bounds {
+            x0: xa.min(xb),
+            y0: ya.min(yb),
+            x1: xa.max(xb),
+            y1: ya.max(yb),
+        }
+    }
+    /// The smallest box holding both.
+    pub fn union(self, o: Bounds) -> Bounds {
+        Bounds {
+            x0: self.x0.min(o.x0),
+            y0: self.y0.min(o.y0),
+            x1: self.x1.max(o.x1),
+            y1: self.y1.max(o.y1),
+        }
+    }
+    /// Gap between two boxes: the larger of the horizontal and vertical gaps,
+    /// negative when they overlap.
+    pub fn gap(self, o: Bounds) -> f64 {
+        let dx = (o.x0 - self.x1).max(self.x0 - o.x1);
+        let dy = (o.y0 - self.y1).max(self.y0 - o.y1);
+        dx.max(dy)
+    }
+    /// Whether `self` lies inside `o`.
+    pub fn inside(self, o: Bounds) -> bool {
+        self.x0 >= o.x0 && self.y0 >= o.y0 && self.x1 <= o.x1 && self.y1 <= o.y1
+    }
+}
+
+/// How a text line is anchored at its point.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Anchor {
+    Start,
+    Middle,
+}
+
+/// Box of one text line at (x, y) (baseline), horizontal or turned 90° clockwise.
+fn text_bounds(x: f64, y: f64, size: f64, body: &str, anchor: Anchor, turned: bool) -> Bounds {
+    let w = TEXT_EM_WIDTH * size * body.chars().count() as f64;
+    let start = match anchor {
+        Anchor::Start => 0.0,
+        Anchor::Middle => -0.5 * w,
+    };
+    let (up, down) = (TEXT_ASCENT_EM * size, TEXT_DESCENT_EM * size);
+    if turned {
+        // rotate(90): the text runs down the page and its top faces +x.
+        Bounds::new(x - down, y + start, x + up, y + start + w)
+    } else {
+        Bounds::new(x + start, y - up, x + start + w, y + down)
+    }
+}
+
 /// Writes SVG elements with fixed number formatting.
 struct Svg(String);
 
@@ -344,25 +430,34 @@ impl Svg {
             fmt3(h)
         );
     }
-    fn text(&mut self, class: &str, x: f64, y: f64, size: f64, body: &str) {
+    fn circle(&mut self, class: &str, x: f64, y: f64, r: f64) {
         let _ = writeln!(
             self.0,
-            r#"<text class="{class}" x="{}" y="{}" font-size="{}">{}</text>"#,
+            r#"<circle class="{class}" cx="{}" cy="{}" r="{}"/>"#,
+            fmt3(x),
+            fmt3(y),
+            fmt3(r)
+        );
+    }
+    fn text_at(&mut self, class: &str, x: f64, y: f64, size: f64, body: &str, anchor: Anchor) {
+        let a = match anchor {
+            Anchor::Start => "",
+            Anchor::Middle => r#" text-anchor="middle""#,
+        };
+        let _ = writeln!(
+            self.0,
+            r#"<text class="{class}" x="{}" y="{}" font-size="{}"{a}>{}</text>"#,
             fmt3(x),
             fmt3(y),
             fmt3(size),
             esc(body)
         );
     }
+    fn text(&mut self, class: &str, x: f64, y: f64, size: f64, body: &str) {
+        self.text_at(class, x, y, size, body, Anchor::Start);
+    }
     fn text_centred(&mut self, class: &str, x: f64, y: f64, size: f64, body: &str) {
-        let _ = writeln!(
-            self.0,
-            r#"<text class="{class}" x="{}" y="{}" font-size="{}" text-anchor="middle">{}</text>"#,
-            fmt3(x),
-            fmt3(y),
-            fmt3(size),
-            esc(body)
-        );
+        self.text_at(class, x, y, size, body, Anchor::Middle);
     }
     fn text_rotated(&mut self, class: &str, x: f64, y: f64, size: f64, body: &str) {
         let _ = writeln!(
@@ -377,17 +472,6 @@ impl Svg {
     fn cross(&mut self, class: &str, x: f64, y: f64, half: f64) {
         self.line(class, x - half, y, x + half, y);
         self.line(class, x, y - half, x, y + half);
-    }
-    /// A page-alignment mark: circled cross, labelled so it is not taken for a hole.
-    fn align_mark(&mut self, x: f64, y: f64) {
-        self.cross("align", x, y, 5.0);
-        let _ = writeln!(
-            self.0,
-            r#"<circle class="align" cx="{}" cy="{}" r="3.000"/>"#,
-            fmt3(x),
-            fmt3(y)
-        );
-        self.text("align-label", x + 3.5, y - 3.5, 2.0, "align");
     }
     fn open(&mut self, tag: &str) {
         let _ = writeln!(self.0, "{tag}");
@@ -404,6 +488,7 @@ text{font-family:sans-serif;fill:#000}\
 .reference{stroke-width:0.5}\
 .hole{stroke-width:0.3}\
 .centre-cross{stroke-width:0.15}\
+.leader{stroke:#666;stroke-width:0.12}\
 .lean{stroke:#b00;stroke-width:0.35}\
 polygon.lean{fill:#b00}\
 .align{stroke-width:0.2}\
@@ -448,133 +533,18 @@ fn jig_text(port: &Port) -> String {
 fn station_text(station_m: f64, units: TickUnits) -> String {
     match units {
         TickUnits::Millimetres => format!("{:.1} mm", station_m * 1000.0),
-        TickUnits::Inches => format!("{:.3} in", station_m / 0.0254),
+        TickUnits::Inches => format!(
+            "{:.3} in ({:.1} mm)",
+            station_m / 0.0254,
+            station_m * 1000.0
+        ),
     }
 }
 
-fn notes_and_rulers(svg: &mut Svg, design: &Design, s: &TemplateSettings) {
-    svg.text(
-        "title",
-        0.0,
-        6.0,
-        4.2,
-        &format!("Drilling template: {}", design.name),
-    );
-    let units = match s.ticks {
-        TickUnits::Millimetres => "stations in mm",
-        TickUnits::Inches => "stations in inches",
-    };
-    let lines = [
-        format!("Print at 100 % (no fit to page), 1:1 scale; {units}, angles in degrees."),
-        "Station: distance aft of the nose tip. Clock: angle from the reference line.".to_string(),
-        "Wrap printed side out, top edge toward the nose, left edge on the reference line."
-            .to_string(),
-        "Clock grows to the right: clockwise seen from behind the tail toward the nose."
-            .to_string(),
-        "Cut on the solid outline, glue the strip under the left edge.".to_string(),
-        "Red arrows: exhaust lean (tilt the drill that way). Circled crosses: page alignment only."
-            .to_string(),
-        "Jig: angle from the normal. Tilt: from aft (down), + toward growing clock (right)."
-            .to_string(),
-        "Safety: wear eye protection, deburr every hole, check the scale before drilling."
-            .to_string(),
-    ];
-    for (i, l) in lines.iter().enumerate() {
-        svg.text("note", 0.0, 11.5 + 3.3 * i as f64, 2.4, l);
-    }
-    // Calibration rulers, 2 mm in so the "0" label is not cut at the sheet's edge.
-    let x0 = RULER_X_MM;
-    let y_mm = 42.0;
-    svg.open(r#"<g id="ruler-mm">"#);
-    svg.line("ruler-bar", x0, y_mm, x0 + 100.0, y_mm);
-    for k in 0..=100 {
-        let len = if k % 10 == 0 {
-            4.0
-        } else if k % 5 == 0 {
-            3.0
-        } else {
-            1.8
-        };
-        let x = x0 + k as f64;
-        svg.line("ruler-tick", x, y_mm, x, y_mm - len);
-        if k % 10 == 0 {
-            svg.text_centred("ruler-label", x, y_mm - 4.8, 2.0, &(k / 10).to_string());
-        }
-    }
-    svg.text("ruler-label", x0 + 103.0, y_mm, 2.4, "100 mm (cm marked)");
-    svg.open("</g>");
-    let y_in = 55.0;
-    let eighth = 25.4 / 8.0;
-    svg.open(r#"<g id="ruler-in">"#);
-    svg.line("ruler-bar", x0, y_in, x0 + 4.0 * 25.4, y_in);
-    for k in 0..=32 {
-        let len = if k % 8 == 0 {
-            4.0
-        } else if k % 4 == 0 {
-            3.0
-        } else if k % 2 == 0 {
-            2.3
-        } else {
-            1.6
-        };
-        let x = x0 + k as f64 * eighth;
-        svg.line("ruler-tick", x, y_in, x, y_in - len);
-        if k % 8 == 0 {
-            svg.text_centred("ruler-label", x, y_in - 4.8, 2.0, &(k / 8).to_string());
-        }
-    }
-    svg.text("ruler-label", x0 + 104.6, y_in, 2.4, "4 in (1/8 in ticks)");
-    svg.open("</g>");
-    svg.text(
-        "ruler-note",
-        0.0,
-        y_in + 5.0,
-        2.6,
-        "check before drilling: both bars must measure true on the printout",
-    );
-}
-
-fn draw_port(svg: &mut Svg, port: &Port, l: &SheetLayout, s: &TemplateSettings) {
-    let (x, y) = l.point_mm(port.station_m, port.clock_rad);
-    let r = 500.0 * port.nozzle.hole_diameter_m();
-    let _ = writeln!(svg.0, r#"<g class="port" id="port-{}">"#, esc(&port.name));
-    let _ = writeln!(
-        svg.0,
-        r#"<circle class="hole" cx="{}" cy="{}" r="{}"/>"#,
-        fmt3(x),
-        fmt3(y),
-        fmt3(r)
-    );
-    svg.cross("centre-cross", x, y, r.max(1.0) + 3.0);
-    // Exhaust lean on the paper: +x is growing clock (the roll tangent), +y is aft.
-    let e = port.exhaust_direction();
-    let (u, v) = (e.dot(&port.roll_tangent()), -e.x);
-    let lean = u.hypot(v);
-    if lean > 1e-9 {
-        let (du, dv) = (u / lean, v / lean);
-        let start = r + 1.0;
-        let end = start + 7.0;
-        let (x1, y1) = (x + du * start, y + dv * start);
-        let (x2, y2) = (x + du * end, y + dv * end);
-        svg.line("lean", x1, y1, x2, y2);
-        // Head: a triangle 2 mm long, 1.6 mm wide at the tip end.
-        let (bx, by) = (x2 - du * 2.0, y2 - dv * 2.0);
-        let _ = writeln!(
-            svg.0,
-            r#"<polygon class="lean" points="{},{} {},{} {},{}"/>"#,
-            fmt3(x2),
-            fmt3(y2),
-            fmt3(bx - dv * 0.8),
-            fmt3(by + du * 0.8),
-            fmt3(bx + dv * 0.8),
-            fmt3(by - du * 0.8)
-        );
-    }
-    // Labels to the right, or to the left near the glue edge.
-    let right = x + 48.0 < l.wrap_mm;
-    let lx = if right { x + r + 4.0 } else { x - r - 4.0 };
-    let anchor = if right { "" } else { r#" text-anchor="end""# };
-    let texts = [
+/// The lines of text printed beside a hole, first line largest. Any number of
+/// lines is placed clear of every other mark.
+pub fn port_label_lines(port: &Port, s: &TemplateSettings) -> Vec<(f64, String)> {
+    vec![
         (2.6, port.name.clone()),
         (
             2.1,
@@ -594,18 +564,279 @@ fn draw_port(svg: &mut Svg, port: &Port, l: &SheetLayout, s: &TemplateSettings) 
             ),
         ),
         (2.1, jig_text(port)),
-    ];
-    for (i, (size, body)) in texts.iter().enumerate() {
+    ]
+}
+
+/// Line pitch of a label block, in units of each line's font size.
+const LINE_PITCH_EM: f64 = 1.2;
+
+/// Every printed mark and label placed so far, and the placement rule: a new item
+/// takes the first of its candidate positions whose box lies inside its allowed
+/// area and keeps [`CLEARANCE_MM`] from every box already placed.
+///
+/// Candidates that lie whole on one page are tried first, so a label is not cut by
+/// a page edge when it need not be.
+struct Placer {
+    taken: Vec<Bounds>,
+    /// Each page's window on the sheet.
+    windows: Vec<Bounds>,
+}
+
+impl Placer {
+    fn fits(&self, b: Bounds, area: Bounds) -> bool {
+        b.inside(area) && self.taken.iter().all(|t| t.gap(b) >= CLEARANCE_MM)
+    }
+    /// Index of the first candidate box that fits, recorded as taken.
+    fn place(&mut self, candidates: &[Bounds], area: Bounds) -> Option<usize> {
+        let on_one_page = |b: Bounds| self.windows.iter().any(|w| b.inside(*w));
+        let k = candidates
+            .iter()
+            .position(|&b| on_one_page(b) && self.fits(b, area))
+            .or_else(|| candidates.iter().position(|&b| self.fits(b, area)))?;
+        self.taken.push(candidates[k]);
+        Some(k)
+    }
+    fn take(&mut self, b: Bounds) {
+        self.taken.push(b);
+    }
+}
+
+/// A block of text lines and its box relative to its top-left corner.
+struct Block {
+    lines: Vec<(f64, String)>,
+    w: f64,
+    h: f64,
+}
+
+impl Block {
+    fn new(lines: Vec<(f64, String)>) -> Self {
+        let w = lines
+            .iter()
+            .map(|(s, t)| TEXT_EM_WIDTH * s * t.chars().count() as f64)
+            .fold(0.0, f64::max);
+        let h = lines.iter().map(|(s, _)| LINE_PITCH_EM * s).sum::<f64>();
+        Block { lines, w, h }
+    }
+    fn at(&self, x0: f64, y0: f64) -> Bounds {
+        Bounds::new(x0, y0, x0 + self.w, y0 + self.h)
+    }
+    fn write(&self, svg: &mut Svg, class: &str, x0: f64, y0: f64) {
+        let mut y = y0;
+        for (size, body) in &self.lines {
+            // Baseline so that the line's box (ascent over, descent under) fills its pitch.
+            let base = y
+                + 0.5 * (LINE_PITCH_EM - TEXT_ASCENT_EM - TEXT_DESCENT_EM) * size
+                + TEXT_ASCENT_EM * size;
+            svg.text(class, x0, base, *size, body);
+            y += LINE_PITCH_EM * size;
+        }
+    }
+}
+
+/// Top-left corners for a `w × h` block around a mark of half-size `m` at (x, y):
+/// right, left, below, above and the four diagonals, at growing distances.
+fn around(x: f64, y: f64, m: f64, w: f64, h: f64) -> Vec<(f64, f64, f64)> {
+    let mut out = Vec::new();
+    for gap in [1.0, 2.5, 5.0, 9.0, 14.0, 20.0, 28.0, 38.0] {
+        let d = m + gap;
+        let slots = [
+            (x + d, y - 0.5 * h),
+            (x - d - w, y - 0.5 * h),
+            (x - 0.5 * w, y + d),
+            (x - 0.5 * w, y - d - h),
+            (x + 0.7 * d, y + 0.7 * d),
+            (x + 0.7 * d, y - 0.7 * d - h),
+            (x - 0.7 * d - w, y + 0.7 * d),
+            (x - 0.7 * d - w, y - 0.7 * d - h),
+        ];
+        out.extend(slots.iter().map(|&(a, b)| (a, b, gap)));
+    }
+    out
+}
+
+/// The fixed notes: title, how to read and print, how to assemble the pages.
+fn note_lines(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Vec<String> {
+    let units = match s.ticks {
+        TickUnits::Millimetres => "stations in mm",
+        TickUnits::Inches => "stations in inches (and mm)",
+    };
+    let (rows, cols) = l.grid;
+    let assembly = if rows * cols > 1 {
+        [
+            format!(
+                "Assembly: {rows} × {cols} pages (rows × columns) sharing {} mm. Trim the left and",
+                fmt_mm(s.page_overlap_mm)
+            ),
+            "top margins off, lay each page over its neighbour so the circled crosses coincide, tape."
+                .to_string(),
+        ]
+    } else {
+        [
+            "One sheet: nothing to assemble.".to_string(),
+            "Check the rulers, then cut out the surface and wrap it.".to_string(),
+        ]
+    };
+    let _ = design;
+    vec![
+        format!("Print at 100 % (no fit to page); {units}, angles in degrees."),
+        "Station: distance aft of the nose tip. Clock: angle from the reference line.".to_string(),
+        "Wrap printed side out, top edge toward the nose, left edge on the reference line."
+            .to_string(),
+        "Clock grows to the right: clockwise seen from behind the tail toward the nose."
+            .to_string(),
+        "Cut on the solid outline, glue the strip under the left edge.".to_string(),
+        "Red arrows: exhaust lean (tilt the drill that way). Circled crosses: page alignment only."
+            .to_string(),
+        "Jig: angle from the normal. Tilt: from aft (down), + toward growing clock (right)."
+            .to_string(),
+        "Safety: wear eye protection, deburr every hole, check the scale before drilling."
+            .to_string(),
+        assembly[0].clone(),
+        assembly[1].clone(),
+    ]
+}
+
+fn fmt_mm(v: f64) -> String {
+    let t = format!("{v:.1}");
+    t.strip_suffix(".0").map(str::to_string).unwrap_or(t)
+}
+
+/// Title, notes, rulers: fixed items at the top of the sheet.
+fn notes_and_rulers(
+    svg: &mut Svg,
+    placer: &mut Placer,
+    design: &Design,
+    l: &SheetLayout,
+    s: &TemplateSettings,
+) {
+    let title = format!("Drilling template: {}", design.name);
+    svg.text("title", 0.0, 6.0, 4.2, &title);
+    placer.take(text_bounds(0.0, 6.0, 4.2, &title, Anchor::Start, false));
+    for (i, line) in note_lines(design, l, s).iter().enumerate() {
+        let y = 11.5 + NOTE_PITCH_MM * i as f64;
+        svg.text("note", 0.0, y, 2.4, line);
+        placer.take(text_bounds(0.0, y, 2.4, line, Anchor::Start, false));
+    }
+    // Calibration rulers, 2 mm in so the "0" label is not cut at the sheet's edge.
+    let x0 = RULER_X_MM;
+    let y_mm = RULER_MM_Y;
+    svg.open(r#"<g id="ruler-mm" class="ruler">"#);
+    svg.line("ruler-bar", x0, y_mm, x0 + 100.0, y_mm);
+    for k in 0..=100 {
+        let len = if k % 10 == 0 {
+            4.0
+        } else if k % 5 == 0 {
+            3.0
+        } else {
+            1.8
+        };
+        let x = x0 + k as f64;
+        svg.line("ruler-tick", x, y_mm, x, y_mm - len);
+        if k % 10 == 0 {
+            svg.text_centred("ruler-label", x, y_mm - 4.8, 2.0, &(k / 10).to_string());
+        }
+    }
+    let side = "100 mm (cm marked)";
+    svg.text("ruler-label", x0 + 103.0, y_mm, 2.4, side);
+    svg.open("</g>");
+    placer.take(
+        Bounds::new(x0 - 1.0, y_mm - 4.8 - 1.6, x0 + 100.0, y_mm).union(text_bounds(
+            x0 + 103.0,
+            y_mm,
+            2.4,
+            side,
+            Anchor::Start,
+            false,
+        )),
+    );
+    let y_in = RULER_IN_Y;
+    let eighth = 25.4 / 8.0;
+    svg.open(r#"<g id="ruler-in" class="ruler">"#);
+    svg.line("ruler-bar", x0, y_in, x0 + 4.0 * 25.4, y_in);
+    for k in 0..=32 {
+        let len = if k % 8 == 0 {
+            4.0
+        } else if k % 4 == 0 {
+            3.0
+        } else if k % 2 == 0 {
+            2.3
+        } else {
+            1.6
+        };
+        let x = x0 + k as f64 * eighth;
+        svg.line("ruler-tick", x, y_in, x, y_in - len);
+        if k % 8 == 0 {
+            svg.text_centred("ruler-label", x, y_in - 4.8, 2.0, &(k / 8).to_string());
+        }
+    }
+    let side = "4 in (1/8 in ticks)";
+    svg.text("ruler-label", x0 + 104.6, y_in, 2.4, side);
+    svg.open("</g>");
+    placer.take(
+        Bounds::new(x0 - 1.0, y_in - 4.8 - 1.6, x0 + 101.6, y_in).union(text_bounds(
+            x0 + 104.6,
+            y_in,
+            2.4,
+            side,
+            Anchor::Start,
+            false,
+        )),
+    );
+    let check = "check before drilling: both bars must measure true on the printout";
+    svg.text("ruler-note", 0.0, y_in + 5.0, 2.6, check);
+    placer.take(text_bounds(
+        0.0,
+        y_in + 5.0,
+        2.6,
+        check,
+        Anchor::Start,
+        false,
+    ));
+}
+
+/// A hole, its centre cross and its lean arrow, fixed where the port is; returns
+/// the mark's box.
+/// `room` is the half-size of the square around the centre the mark may fill, so
+/// that marks of close holes stay clear of each other: the centre cross and lean
+/// arrow shrink to fit it, the hole itself never does.
+fn draw_port_mark(svg: &mut Svg, port: &Port, l: &SheetLayout, room: f64) -> Bounds {
+    let (x, y) = l.point_mm(port.station_m, port.clock_rad);
+    let r = 500.0 * port.nozzle.hole_diameter_m();
+    let half = (r.max(1.0) + 3.0).min(room).max(r + 0.3);
+    let mut b = Bounds::new(x - half, y - half, x + half, y + half);
+    svg.circle("hole", x, y, r);
+    svg.cross("centre-cross", x, y, half);
+    // Exhaust lean on the paper: +x is growing clock (the roll tangent), +y is aft.
+    let e = port.exhaust_direction();
+    let (u, v) = (e.dot(&port.roll_tangent()), -e.x);
+    let lean = u.hypot(v);
+    let end = (r + 8.0).min(room);
+    if lean > 1e-9 && end - (r + 1.0) >= 2.5 {
+        let (du, dv) = (u / lean, v / lean);
+        let start = r + 1.0;
+        let (x1, y1) = (x + du * start, y + dv * start);
+        let (x2, y2) = (x + du * end, y + dv * end);
+        svg.line("lean", x1, y1, x2, y2);
+        // Head: a triangle 2 mm long, 1.6 mm wide at the tip end.
+        let (bx, by) = (x2 - du * 2.0, y2 - dv * 2.0);
         let _ = writeln!(
             svg.0,
-            r#"<text class="port-label" x="{}" y="{}" font-size="{}"{anchor}>{}</text>"#,
-            fmt3(lx),
-            fmt3(y - 3.0 + 3.0 * i as f64),
-            fmt3(*size),
-            esc(body)
+            r#"<polygon class="lean" points="{},{} {},{} {},{}"/>"#,
+            fmt3(x2),
+            fmt3(y2),
+            fmt3(bx - dv * 0.8),
+            fmt3(by + du * 0.8),
+            fmt3(bx + dv * 0.8),
+            fmt3(by - du * 0.8)
         );
+        b = b.union(Bounds::new(x1, y1, x2, y2).union(Bounds::new(
+            x2 - 0.8,
+            y2 - 0.8,
+            x2 + 0.8,
+            y2 + 0.8,
+        )));
     }
-    svg.open("</g>");
+    b
 }
 
 /// Spans of x on the surface covered by a patch of `width` centred at `centre`,
@@ -624,10 +855,60 @@ fn wrapped_spans(centre: f64, width: f64, wrap: f64) -> Vec<(f64, f64)> {
         .collect()
 }
 
-fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> String {
-    let mut svg = Svg(String::new());
+/// A single line of text to place: its candidate baselines (x, y), anchor and turn.
+struct Label<'a> {
+    class: &'a str,
+    size: f64,
+    body: String,
+    anchor: Anchor,
+    turned: bool,
+    spots: Vec<(f64, f64)>,
+}
+
+impl Label<'_> {
+    /// Place at the first spot that fits; a label with no free spot is left out
+    /// (returns false) rather than printed over another mark.
+    fn place(&self, svg: &mut Svg, placer: &mut Placer, area: Bounds) -> bool {
+        let boxes: Vec<Bounds> = self
+            .spots
+            .iter()
+            .map(|&(x, y)| text_bounds(x, y, self.size, &self.body, self.anchor, self.turned))
+            .collect();
+        let Some(k) = placer.place(&boxes, area) else {
+            return false;
+        };
+        let (x, y) = self.spots[k];
+        if self.turned {
+            svg.text_rotated(self.class, x, y, self.size, &self.body);
+        } else {
+            svg.text_at(self.class, x, y, self.size, &self.body, self.anchor);
+        }
+        true
+    }
+}
+
+/// Offsets 0, +step, −step, +2 step, ... up to `reach` either way.
+fn outward(step: f64, reach: f64) -> Vec<f64> {
+    let mut v = vec![0.0];
+    let mut k = 1.0;
+    while k * step <= reach {
+        v.push(k * step);
+        v.push(-k * step);
+        k += 1.0;
+    }
+    v
+}
+
+/// The drawing and the boxes of what it holds, for deciding which pages to print.
+struct SheetDrawing {
+    svg: String,
+    /// Boxes of the things worth a page: holes and their labels, notes and rulers,
+    /// keep-out zones, fin roots.
+    content: Vec<Bounds>,
+}
+
+fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> SheetDrawing {
     let a = &design.airframe;
-    notes_and_rulers(&mut svg, design, s);
     let (top, h) = (
         l.surface_top_mm,
         (l.bottom_station_m - l.top_station_m) * 1000.0,
@@ -635,26 +916,59 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Stri
     let ys = |station: f64| top + (station - l.top_station_m) * 1000.0;
     let clip = |station: f64| station.clamp(l.top_station_m, l.bottom_station_m);
     let w = l.wrap_mm;
+    let sheet = Bounds::new(0.0, 0.0, l.width_mm, l.height_mm);
+    let surface = Bounds::new(0.0, top, w, top + h);
+    let mut back = Svg(String::new());
+    let mut front = Svg(String::new());
+    let (ww, wh) = l.window_mm;
+    let mut placer = Placer {
+        taken: Vec::new(),
+        windows: l
+            .pages
+            .iter()
+            .map(|p| Bounds::new(p.x_mm, p.y_mm, p.x_mm + ww, p.y_mm + wh))
+            .collect(),
+    };
+    let mut content = Vec::new();
 
-    // Glue strip and the cut outline.
-    svg.rect("glue", w, top, s.glue_strip_mm, h);
-    svg.text_rotated(
-        "glue-label",
-        w + 0.5 * s.glue_strip_mm - 1.0,
-        top + 4.0,
-        2.6,
-        "glue here",
-    );
-    svg.open(r#"<g id="surface-group">"#);
+    // Fixed items first: notes, rulers, holes.
+    notes_and_rulers(&mut front, &mut placer, design, l, s);
+    content.extend(placer.taken.iter().copied());
+    let mut marks = Vec::new();
+    let mut mark_svg = Vec::new();
+    let centres: Vec<(f64, f64)> = design
+        .ports
+        .iter()
+        .map(|p| l.point_mm(p.station_m, p.clock_rad))
+        .collect();
+    for (i, port) in design.ports.iter().enumerate() {
+        // Half the paper distance (the larger of across and along) to the nearest
+        // other hole, less half the clearance.
+        let nearest = centres
+            .iter()
+            .enumerate()
+            .filter(|&(j, _)| j != i)
+            .map(|(_, c)| (c.0 - centres[i].0).abs().max((c.1 - centres[i].1).abs()))
+            .fold(f64::INFINITY, f64::min);
+        let room = 0.5 * (nearest - CLEARANCE_MM);
+        let mut m = Svg(String::new());
+        let b = draw_port_mark(&mut m, port, l, room);
+        placer.take(b);
+        content.push(b);
+        marks.push(b);
+        mark_svg.push(m.0);
+    }
+
+    // Background: glue strip, cut outline, keep-out zones, grid, fins, ticks.
+    back.rect("glue", w, top, s.glue_strip_mm, h);
     let _ = writeln!(
-        svg.0,
+        back.0,
         r#"<rect id="surface" class="cut" x="0.000" y="{}" width="{}" height="{}"/>"#,
         fmt3(top),
         fmt3(w),
         fmt3(h)
     );
-
-    // Keep-out zones.
+    let mut keep_out_labels = Vec::new();
     for k in &a.keep_outs {
         let (from, to, spans) = match k.zone {
             Zone::Band {
@@ -677,79 +991,61 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Stri
             continue;
         }
         let _ = writeln!(
-            svg.0,
+            back.0,
             r#"<g class="keep-out-zone" id="keep-out-{}">"#,
             esc(&k.name)
         );
         for (x0, x1) in &spans {
-            svg.rect("keep-out", *x0, y0, x1 - x0, y1 - y0);
+            back.rect("keep-out", *x0, y0, x1 - x0, y1 - y0);
+            content.push(Bounds::new(*x0, y0, *x1, y1));
         }
-        if let Some((x0, _)) = spans.first() {
-            svg.text(
-                "keep-out-label",
-                x0 + 1.0,
-                y0 + 3.0,
-                2.2,
-                &format!("keep out: {}", k.name),
-            );
+        back.open("</g>");
+        if let Some(&(x0, x1)) = spans.first() {
+            let body = format!("keep out: {}", k.name);
+            let mut spots = Vec::new();
+            for dy in [3.0, 6.0, -1.0, 9.0, 12.0] {
+                let mut x = x0 + 1.0;
+                while x < x1.max(x0 + 1.5) {
+                    spots.push((x, y0 + dy));
+                    x += 6.0;
+                }
+            }
+            spots.push((x0 + 1.0, y1 + 3.0));
+            keep_out_labels.push(Label {
+                class: "keep-out-label",
+                size: 2.2,
+                body,
+                anchor: Anchor::Start,
+                turned: false,
+                spots,
+            });
         }
-        svg.open("</g>");
     }
-
-    // Clock grid, reference line and glue edge.
     for q in 1..4 {
         let x = w * q as f64 / 4.0;
-        svg.line("grid", x, top, x, top + h);
-        svg.text(
-            "grid-label",
-            x + 0.8,
-            top + 3.0,
-            2.2,
-            &format!("{}°", 90 * q),
-        );
+        back.line("grid", x, top, x, top + h);
     }
-    svg.line("reference", 0.0, top, 0.0, top + h);
-    svg.text_rotated(
-        "reference-label",
-        13.0,
-        top + 14.0,
-        2.6,
-        "reference line, clock 0°",
-    );
-    svg.text_rotated(
-        "grid-label",
-        w - 8.0,
-        top + 14.0,
-        2.2,
-        "clock 360° = 0°, glue edge",
-    );
-
-    // Tube ends when the surface reaches them.
-    if (l.top_station_m - a.tube_fore_station_m()).abs() < 1e-9 {
-        svg.text("tube-end", 0.5 * w, top - 1.0, 2.4, "fore end of tube");
-    }
-    if (l.bottom_station_m - a.tube_aft_station_m()).abs() < 1e-9 {
-        svg.text("tube-end", 0.5 * w, top + h + 3.5, 2.4, "aft end of tube");
-    }
-
-    // Fin roots.
+    back.line("reference", 0.0, top, 0.0, top + h);
+    let mut fin_labels = Vec::new();
     if let Some(f) = &a.fins {
         let (from, to) = (clip(f.station_m), clip(f.station_m + f.root_chord_m));
         if to > from {
             for (k, clock) in f.clocks_rad().iter().enumerate() {
                 let x = clock.rem_euclid(TAU) * l.radius_mm;
-                svg.line("fin", x, ys(from), x, ys(to));
-                svg.text(
-                    "fin-label",
-                    x + 0.8,
-                    ys(from) + 6.0,
-                    2.4,
-                    &format!("fin {}", k + 1),
-                );
+                back.line("fin", x, ys(from), x, ys(to));
+                content.push(Bounds::new(x, ys(from), x, ys(to)));
+                let body = format!("fin {}", k + 1);
+                let mut spots = Vec::new();
+                let mut y = ys(from) + 6.0;
+                while y < ys(to) {
+                    spots.push((x + 0.8, y));
+                    spots.push((x - 0.8, y));
+                    y += 4.0;
+                }
+                fin_labels.push((spots, body));
             }
         }
     }
-
     // Station ticks on both edges, at whole multiples of the step from the nose tip.
     let step_m = match s.ticks {
         TickUnits::Millimetres => 0.010,
@@ -757,66 +1053,303 @@ fn sheet_content(design: &Design, l: &SheetLayout, s: &TemplateSettings) -> Stri
     };
     let first = (l.top_station_m / step_m - 1e-9).ceil() as i64;
     let last = (l.bottom_station_m / step_m + 1e-9).floor() as i64;
-    svg.open(r#"<g id="station-ticks">"#);
+    back.open(r#"<g id="station-ticks">"#);
+    let mut tick_labels = Vec::new();
     for k in first..=last {
         let station = k as f64 * step_m;
         let y = ys(station);
         let len = if k % 5 == 0 { 5.0 } else { 3.0 };
-        svg.line("tick", 0.0, y, len, y);
-        svg.line("tick", w, y, w - len, y);
+        back.line("tick", 0.0, y, len, y);
+        back.line("tick", w, y, w - len, y);
         let label = match s.ticks {
             TickUnits::Millimetres => format!("{}", k * 10),
             TickUnits::Inches => format!("{:.1} in", k as f64 * 0.5),
         };
-        svg.text("tick-label", len + 0.8, y + 0.7, 1.8, &label);
+        tick_labels.push((len, y, label));
     }
-    svg.open("</g>");
+    back.open("</g>");
 
-    for port in &design.ports {
-        draw_port(&mut svg, port, l, s);
-    }
-    svg.open("</g>");
-
-    // Alignment crosses in the page overlaps (only when paged).
+    // Movable items, most important first, each clear of everything before it.
+    // Page-alignment crosses in the page overlaps (only when paged).
     let o = s.page_overlap_mm;
     let (rows, cols) = l.grid;
     let (sx, sy) = l.step_mm(o);
-    let (ww, wh) = l.window_mm;
+    let mut align = Svg(String::new());
+    // The mark: circle r 3, cross ±5, "align" centred 6 mm above.
+    let mark_box = |x: f64, y: f64| {
+        Bounds::new(x - 5.0, y - 5.0, x + 5.0, y + 5.0).union(text_bounds(
+            x,
+            y - 6.0,
+            2.0,
+            "align",
+            Anchor::Middle,
+            false,
+        ))
+    };
+    let mut seams: Vec<(Vec<(f64, f64)>, Bounds)> = Vec::new();
     for c in 1..cols {
         let x = c as f64 * sx + 0.5 * o;
         for r in 0..rows {
-            let y = (r as f64 * sy + 0.5 * wh).min(l.height_mm - 6.0);
-            svg.align_mark(x, y);
+            let (y_lo, y_hi) = (r as f64 * sy, (r as f64 * sy + wh).min(l.height_mm));
+            let mid = 0.5 * (y_lo + y_hi);
+            let spots = outward(2.0, 0.5 * (y_hi - y_lo))
+                .iter()
+                .map(|d| (x, mid + d))
+                .collect();
+            seams.push((spots, Bounds::new(x - 0.5 * o, y_lo, x + 0.5 * o, y_hi)));
         }
     }
     for r in 1..rows {
-        let y = r as f64 * sy + 0.5 * o;
+        let y = r as f64 * sy + 0.5 * o + 1.3;
         for c in 0..cols {
-            let x = (c as f64 * sx + 0.5 * ww).min(l.width_mm - 6.0);
-            svg.align_mark(x, y);
+            let (x_lo, x_hi) = (c as f64 * sx, (c as f64 * sx + ww).min(l.width_mm));
+            let mid = 0.5 * (x_lo + x_hi);
+            let spots = outward(2.0, 0.5 * (x_hi - x_lo))
+                .iter()
+                .map(|d| (mid + d, y))
+                .collect();
+            seams.push((
+                spots,
+                Bounds::new(x_lo, y - 0.5 * o - 1.3, x_hi, y + 0.5 * o - 1.3),
+            ));
         }
     }
-    svg.0
+    for (spots, area) in &seams {
+        let boxes: Vec<Bounds> = spots.iter().map(|&(x, y)| mark_box(x, y)).collect();
+        if let Some(k) = placer.place(&boxes, *area) {
+            let (x, y) = spots[k];
+            align.open(r#"<g class="align-mark">"#);
+            align.cross("align", x, y, 5.0);
+            align.circle("align", x, y, 3.0);
+            align.text_centred("align-label", x, y - 6.0, 2.0, "align");
+            align.open("</g>");
+        }
+    }
+
+    // Port labels: any number of lines, around the hole, with a leader when far.
+    let mut labels = Svg(String::new());
+    for (port, (mark, m_svg)) in design.ports.iter().zip(marks.iter().zip(&mark_svg)) {
+        let (x, y) = l.point_mm(port.station_m, port.clock_rad);
+        let block = Block::new(port_label_lines(port, s));
+        let half = 0.5 * (mark.x1 - mark.x0).max(mark.y1 - mark.y0);
+        let spots = around(x, y, half.min(8.0), block.w, block.h);
+        let boxes: Vec<Bounds> = spots.iter().map(|&(a, b, _)| block.at(a, b)).collect();
+        let inner = Bounds::new(0.5, top + 0.5, w - 0.5, top + h - 0.5);
+        let k = placer
+            .place(&boxes, inner)
+            .or_else(|| placer.place(&boxes, sheet))
+            .unwrap_or_else(|| {
+                // No free spot anywhere near: the first spot, so the hole still has its name.
+                placer.take(boxes[0]);
+                0
+            });
+        let (bx, by, gap) = spots[k];
+        let _ = writeln!(
+            labels.0,
+            r#"<g class="port" id="port-{}">"#,
+            esc(&port.name)
+        );
+        let _ = writeln!(labels.0, r#"<g class="port-mark">"#);
+        labels.0.push_str(m_svg);
+        labels.open("</g>");
+        if gap > 4.0 {
+            let b = block.at(bx, by);
+            let (px, py) = (x.clamp(b.x0, b.x1), y.clamp(b.y0, b.y1));
+            labels.line("leader", x, y, px, py);
+        }
+        labels.open(r#"<g class="port-label">"#);
+        block.write(&mut labels, "port-label", bx, by);
+        labels.open("</g>");
+        labels.open("</g>");
+        content.push(block.at(bx, by));
+    }
+
+    // Surface labels: reference line, glue edge and strip, quarter lines, fins,
+    // keep-out zones, tube ends; station labels last.
+    let along = |x: f64| -> Vec<(f64, f64)> {
+        let mut v = Vec::new();
+        let mut y = top + 4.0;
+        while y < top + h {
+            v.push((x, y));
+            y += 5.0;
+        }
+        v
+    };
+    let mut texts = Svg(String::new());
+    let ref_text = "reference line, clock 0°".to_string();
+    Label {
+        class: "reference-label",
+        size: 2.6,
+        body: ref_text,
+        anchor: Anchor::Start,
+        turned: true,
+        // Clear of the station ticks (5 mm) and their labels first, on the line last.
+        spots: [11.0, 15.0, 20.0, 0.25 * 2.6 + 0.8]
+            .iter()
+            .flat_map(|&x| along(x))
+            .collect(),
+    }
+    .place(&mut texts, &mut placer, surface);
+    Label {
+        class: "grid-label",
+        size: 2.2,
+        body: "clock 360° = 0°, glue edge".to_string(),
+        anchor: Anchor::Start,
+        turned: true,
+        spots: [w - 11.0, w - 15.0, w - 20.0, w - 0.8 * 2.2 - 0.8]
+            .iter()
+            .flat_map(|&x| along(x))
+            .collect(),
+    }
+    .place(&mut texts, &mut placer, surface);
+    if s.glue_strip_mm > 3.0 {
+        Label {
+            class: "glue-label",
+            size: 2.6,
+            body: "glue here".to_string(),
+            anchor: Anchor::Start,
+            turned: true,
+            spots: along(w + 0.5 * s.glue_strip_mm - 1.0),
+        }
+        .place(
+            &mut texts,
+            &mut placer,
+            Bounds::new(w, top, w + s.glue_strip_mm, top + h),
+        );
+    }
+    for q in 1..4 {
+        let x = w * q as f64 / 4.0;
+        let body = format!("{}°", 90 * q);
+        let mut spots = Vec::new();
+        let mut y = top + 3.0;
+        while y < top + h {
+            spots.push((x + 0.8, y));
+            spots.push((x - 0.8 - TEXT_EM_WIDTH * 2.2 * 3.0, y));
+            y += 5.0;
+        }
+        Label {
+            class: "grid-label",
+            size: 2.2,
+            body,
+            anchor: Anchor::Start,
+            turned: false,
+            spots,
+        }
+        .place(&mut texts, &mut placer, surface);
+    }
+    for (spots, body) in fin_labels {
+        let spots = spots
+            .into_iter()
+            .enumerate()
+            .map(|(i, (x, y))| {
+                // Odd spots are left of the line: shift by the text's width.
+                if i % 2 == 1 {
+                    (x - TEXT_EM_WIDTH * 2.4 * body.chars().count() as f64, y)
+                } else {
+                    (x, y)
+                }
+            })
+            .collect();
+        Label {
+            class: "fin-label",
+            size: 2.4,
+            body,
+            anchor: Anchor::Start,
+            turned: false,
+            spots,
+        }
+        .place(&mut texts, &mut placer, surface);
+    }
+    for k in keep_out_labels {
+        k.place(&mut texts, &mut placer, surface);
+    }
+    let xs: Vec<f64> = outward(5.0, 0.5 * w).iter().map(|d| 0.5 * w + d).collect();
+    if (l.top_station_m - a.tube_fore_station_m()).abs() < 1e-9 {
+        Label {
+            class: "tube-end",
+            size: 2.4,
+            body: "fore end of tube".to_string(),
+            anchor: Anchor::Middle,
+            turned: false,
+            spots: xs.iter().map(|&x| (x, top - 1.0)).collect(),
+        }
+        .place(&mut texts, &mut placer, sheet);
+    }
+    if (l.bottom_station_m - a.tube_aft_station_m()).abs() < 1e-9 {
+        Label {
+            class: "tube-end",
+            size: 2.4,
+            body: "aft end of tube".to_string(),
+            anchor: Anchor::Middle,
+            turned: false,
+            spots: xs.iter().map(|&x| (x, top + h + 3.5)).collect(),
+        }
+        .place(&mut texts, &mut placer, sheet);
+    }
+    let mut ticks = Svg(String::new());
+    ticks.open(r#"<g id="station-labels">"#);
+    for (len, y, label) in tick_labels {
+        let right = w - len - 0.8 - TEXT_EM_WIDTH * 1.8 * label.chars().count() as f64;
+        Label {
+            class: "tick-label",
+            size: 1.8,
+            body: label,
+            anchor: Anchor::Start,
+            turned: false,
+            spots: vec![(len + 0.8, y + 0.7), (right, y + 0.7)],
+        }
+        .place(&mut ticks, &mut placer, surface);
+    }
+    ticks.open("</g>");
+
+    let mut svg = back.0;
+    svg.push_str(&ticks.0);
+    svg.push_str(&texts.0);
+    svg.push_str(&labels.0);
+    svg.push_str(&front.0);
+    svg.push_str(&align.0);
+    SheetDrawing { svg, content }
 }
 
-/// The drilling template as one SVG document per page, row by row.
+/// One printed page of the template.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TemplatePage {
+    /// Row of the page in the grid, from 1 at the top.
+    pub row: usize,
+    /// Column, from 1 at the left.
+    pub column: usize,
+    /// The page as a complete SVG document.
+    pub svg: String,
+}
+
+/// The page's title: where it sits in the grid.
+pub fn page_title(row: usize, column: usize, grid: (usize, usize)) -> String {
+    format!("row {row}, column {column} (of {} × {})", grid.0, grid.1)
+}
+
+/// The drilling template as one SVG document per page, row by row; pages whose
+/// window holds nothing but tube outline, grid and station ticks are left out.
 ///
 /// Each page's root `<svg>` has `width` and `height` in millimetres and a `viewBox`
 /// of the same numbers, so printing at 100 % gives true size.
-pub fn drill_template_svg(
+pub fn drill_template_pages(
     design: &Design,
     s: &TemplateSettings,
-) -> Result<Vec<String>, ExportError> {
+) -> Result<Vec<TemplatePage>, ExportError> {
     let l = sheet_layout(design, s)?;
-    let content = sheet_content(design, &l, s);
+    let drawing = sheet_content(design, &l, s);
     let (pw, ph) = l.page_mm;
     let (ox, oy) = l.window_origin_mm;
     let (ww, wh) = l.window_mm;
-    let (rows, cols) = l.grid;
     Ok(l
         .pages
         .iter()
+        .filter(|p| {
+            let window = Bounds::new(p.x_mm, p.y_mm, p.x_mm + ww, p.y_mm + wh);
+            drawing.content.iter().any(|b| b.gap(window) < 0.0)
+        })
         .map(|p| {
+            let title = page_title(p.row, p.column, l.grid);
             let mut out = String::new();
             let _ = writeln!(out, r#"<?xml version="1.0" encoding="UTF-8"?>"#);
             let _ = writeln!(
@@ -827,10 +1360,9 @@ pub fn drill_template_svg(
             );
             let _ = writeln!(
                 out,
-                "<title>Drilling template: {}, page {}/{}</title>",
+                "<title>Drilling template: {}, {}</title>",
                 esc(&design.name),
-                p.row,
-                p.column
+                title
             );
             let _ = writeln!(out, "{STYLE}");
             let _ = writeln!(
@@ -847,24 +1379,36 @@ pub fn drill_template_svg(
                 fmt3(ox - p.x_mm),
                 fmt3(oy - p.y_mm)
             );
-            out.push_str(&content);
+            out.push_str(&drawing.svg);
             let _ = writeln!(out, "</g></g>");
             if !s.single_sheet {
                 let _ = writeln!(
                     out,
-                    r#"<text class="page-label" x="{}" y="{}" font-size="3.000" font-family="sans-serif">page {}/{} (row/column of {} × {}) · {}</text>"#,
+                    r#"<text class="page-label" x="{}" y="{}" font-size="3.000" font-family="sans-serif">{} · {}</text>"#,
                     fmt3(ox),
                     fmt3(oy + wh + PAGE_LABEL_MM - 1.0),
-                    p.row,
-                    p.column,
-                    rows,
-                    cols,
+                    title,
                     esc(&design.name)
                 );
             }
             let _ = writeln!(out, "</svg>");
-            out
+            TemplatePage {
+                row: p.row,
+                column: p.column,
+                svg: out,
+            }
         })
+        .collect())
+}
+
+/// The SVG documents of [`drill_template_pages`], in order.
+pub fn drill_template_svg(
+    design: &Design,
+    s: &TemplateSettings,
+) -> Result<Vec<String>, ExportError> {
+    Ok(drill_template_pages(design, s)?
+        .into_iter()
+        .map(|p| p.svg)
         .collect())
 }
 
@@ -906,6 +1450,270 @@ mod tests {
             single_sheet: true,
             ..Default::default()
         }
+    }
+
+    /// Every printed item of a page with its box in page millimetres, read from the
+    /// SVG alone: hole marks (hole, centre cross, lean arrow), port label blocks,
+    /// alignment marks and rulers as one item each; every other text on its own.
+    /// Lines that are drawing rather than marks (outline, grid, ticks, fin roots,
+    /// keep-out shading, leaders) are not items. Text boxes use the stated font
+    /// estimate ([`TEXT_EM_WIDTH`], [`TEXT_ASCENT_EM`], [`TEXT_DESCENT_EM`]).
+    fn printed_items(page: &str) -> Vec<(String, Bounds)> {
+        let doc = Document::parse(page).unwrap();
+        let (tx, ty) = sheet_offset(&doc);
+        let clip = doc
+            .descendants()
+            .find(|n| n.has_tag_name("rect") && n.parent().unwrap().has_tag_name("clipPath"))
+            .unwrap();
+        let window = Bounds::new(
+            attr(&clip, "x"),
+            attr(&clip, "y"),
+            attr(&clip, "x") + attr(&clip, "width"),
+            attr(&clip, "y") + attr(&clip, "height"),
+        );
+        let groups = ["port-mark", "port-label", "align-mark", "ruler"];
+        let in_sheet = |n: &Node| n.ancestors().any(|a| a.attribute("id") == Some("sheet"));
+        let shape = |n: &Node| -> Option<Bounds> {
+            let b = match n.tag_name().name() {
+                "circle" => {
+                    let (x, y, r) = (attr(n, "cx"), attr(n, "cy"), attr(n, "r"));
+                    Bounds::new(x - r, y - r, x + r, y + r)
+                }
+                "line" => Bounds::new(attr(n, "x1"), attr(n, "y1"), attr(n, "x2"), attr(n, "y2")),
+                "polygon" => {
+                    let pts: Vec<(f64, f64)> = n
+                        .attribute("points")
+                        .unwrap()
+                        .split_whitespace()
+                        .map(|p| {
+                            let (a, b) = p.split_once(',').unwrap();
+                            (a.parse().unwrap(), b.parse().unwrap())
+                        })
+                        .collect();
+                    pts.iter().fold(
+                        Bounds::new(pts[0].0, pts[0].1, pts[0].0, pts[0].1),
+                        |b, p| b.union(Bounds::new(p.0, p.1, p.0, p.1)),
+                    )
+                }
+                "text" => {
+                    let body = n.text().unwrap_or("");
+                    let anchor = match n.attribute("text-anchor") {
+                        Some("middle") => Anchor::Middle,
+                        None => Anchor::Start,
+                        Some(a) => panic!("anchor {a}"),
+                    };
+                    let turned = n
+                        .attribute("transform")
+                        .is_some_and(|t| t.starts_with("rotate(90"));
+                    text_bounds(
+                        attr(n, "x"),
+                        attr(n, "y"),
+                        attr(n, "font-size"),
+                        body,
+                        anchor,
+                        turned,
+                    )
+                }
+                _ => return None,
+            };
+            let (dx, dy) = if in_sheet(n) { (tx, ty) } else { (0.0, 0.0) };
+            Some(Bounds::new(b.x0 + dx, b.y0 + dy, b.x1 + dx, b.y1 + dy))
+        };
+        let mut items = Vec::new();
+        for n in doc.descendants().filter(|n| n.is_element()) {
+            let class = n.attribute("class").unwrap_or("");
+            let grouped = n
+                .ancestors()
+                .skip(1)
+                .any(|a| groups.contains(&a.attribute("class").unwrap_or("")));
+            if n.has_tag_name("g") && groups.contains(&class) && !grouped {
+                let b = n
+                    .descendants()
+                    .filter_map(|d| shape(&d))
+                    .reduce(Bounds::union)
+                    .unwrap();
+                items.push((
+                    format!("{class} {:?}", n.parent().and_then(|p| p.attribute("id"))),
+                    b,
+                ));
+            } else if n.has_tag_name("text") && !grouped {
+                let b = shape(&n).unwrap();
+                items.push((format!("{class} `{}`", n.text().unwrap_or("")), b));
+            }
+        }
+        // Only what the page prints: items reaching into its window, cut to it (the
+        // window clips them), and the page's own label.
+        items
+            .into_iter()
+            .filter_map(|(name, b)| {
+                if name.starts_with("page-label") {
+                    Some((name, b))
+                } else if b.gap(window) < 0.0 {
+                    let cut = Bounds::new(
+                        b.x0.max(window.x0),
+                        b.y0.max(window.y0),
+                        b.x1.min(window.x1),
+                        b.y1.min(window.y1),
+                    );
+                    Some((name, cut))
+                } else {
+                    None
+                }
+            })
+            .collect()
+    }
+
+    /// The smallest gap between any two printed items of a page, with their names.
+    fn tightest(page: &str) -> Option<(f64, String, String)> {
+        let items = printed_items(page);
+        let mut best: Option<(f64, String, String)> = None;
+        for i in 0..items.len() {
+            for j in i + 1..items.len() {
+                let g = items[i].1.gap(items[j].1);
+                if best.as_ref().is_none_or(|b| g < b.0) {
+                    best = Some((g, items[i].0.clone(), items[j].0.clone()));
+                }
+            }
+        }
+        best
+    }
+
+    /// Coordinates are written with three decimals: a gap may read up to 2 µm
+    /// smaller than placed.
+    const WRITTEN_SLACK_MM: f64 = 0.002;
+
+    fn assert_clear(d: &Design, s: &TemplateSettings, what: &str) {
+        let pages = drill_template_pages(d, s).unwrap();
+        assert!(!pages.is_empty());
+        for p in &pages {
+            if let Some((g, a, b)) = tightest(&p.svg) {
+                assert!(
+                    g >= CLEARANCE_MM - WRITTEN_SLACK_MM,
+                    "{what}, page {}: {a} and {b} are {g:.3} mm apart",
+                    page_title(p.row, p.column, (0, 0))
+                );
+            }
+        }
+    }
+
+    fn all_settings() -> Vec<TemplateSettings> {
+        let mut v = Vec::new();
+        for paper in [Paper::A4, Paper::Letter] {
+            for orientation in [Orientation::Portrait, Orientation::Landscape] {
+                for ticks in [TickUnits::Millimetres, TickUnits::Inches] {
+                    v.push(TemplateSettings {
+                        paper,
+                        orientation,
+                        ticks,
+                        ..Default::default()
+                    });
+                }
+            }
+        }
+        v.push(single());
+        v
+    }
+
+    #[test]
+    fn no_two_printed_items_touch_on_any_page_of_the_demos() {
+        for (name, text) in [
+            ("heron-54", include_str!("../../layouts/heron-54.toml")),
+            ("osprey-98", include_str!("../../layouts/osprey-98.toml")),
+        ] {
+            let d = crate::layout::parse_str(text, name).unwrap();
+            for s in all_settings() {
+                assert_clear(&d, &s, &format!("{name} {:?} {:?}", s.paper, s.orientation));
+            }
+        }
+        let d = fixture::design();
+        for s in all_settings() {
+            assert_clear(&d, &s, "fixture");
+        }
+    }
+
+    #[test]
+    fn a_port_at_clock_zero_clears_the_reference_label_and_station_labels() {
+        let mut d = fixture::design();
+        d.ports.push(fixture::port("zero", 0.5, 0.2, 0.0, 0.0));
+        d.ports.push(fixture::port("late", 0.45, 359.5, 5.0, 0.0));
+        for s in all_settings() {
+            assert_clear(&d, &s, "clock zero");
+        }
+    }
+
+    proptest::proptest! {
+        #![proptest_config(proptest::prelude::ProptestConfig { cases: 40, ..Default::default() })]
+
+        #[test]
+        fn no_two_printed_items_touch_on_random_layouts(
+            ports in proptest::collection::vec(
+                (0.40f64..0.80, 0.0f64..360.0, -40.0f64..40.0, -30.0f64..30.0, 0.8f64..3.0),
+                1..9,
+            ),
+            paper in 0usize..2,
+            landscape in proptest::bool::ANY,
+        ) {
+            // Holes drilled apart: centres at least both radii, 0.3 mm of cross each
+            // and the clearance apart, across or along the tube (fixed by the builder).
+            for (i, a) in ports.iter().enumerate() {
+                for b in &ports[i + 1..] {
+                    let dx = (a.1 - b.1).to_radians().abs() * 27.0;
+                    let dy = (a.0 - b.0).abs() * 1000.0;
+                    proptest::prop_assume!(dx.max(dy) >= 0.5 * (a.4 + b.4) + 0.6 + CLEARANCE_MM);
+                }
+            }
+            let mut d = fixture::design();
+            d.ports = ports
+                .iter()
+                .enumerate()
+                .map(|(k, &(st, clk, t, a, dia))| {
+                    let mut p = fixture::port(&format!("p{k}"), st, clk, t, a);
+                    p.nozzle = crate::model::NozzleSpec::Hole {
+                        diameter_m: dia * 1e-3,
+                        discharge_coefficient: 0.8,
+                    };
+                    p
+                })
+                .collect();
+            let s = TemplateSettings {
+                paper: [Paper::A4, Paper::Letter][paper],
+                orientation: if landscape { Orientation::Landscape } else { Orientation::Portrait },
+                ..Default::default()
+            };
+            let pages = drill_template_pages(&d, &s).unwrap();
+            for p in &pages {
+                if let Some((g, a, b)) = tightest(&p.svg) {
+                    proptest::prop_assert!(
+                        g >= CLEARANCE_MM - WRITTEN_SLACK_MM,
+                        "page {} {}: {} and {} are {:.3} mm apart", p.row, p.column, a, b, g
+                    );
+                }
+            }
+        }
+    }
+
+    #[test]
+    fn pages_with_only_tube_outline_are_left_out() {
+        let mut d = fixture::design();
+        d.airframe.fins = None;
+        d.airframe.keep_outs.clear();
+        d.ports = vec![
+            fixture::port("fore", 0.42, 90.0, 0.0, 0.0),
+            fixture::port("aft", 0.95, 90.0, 0.0, 0.0),
+        ];
+        let s = TemplateSettings::default();
+        let l = sheet_layout(&d, &s).unwrap();
+        assert_eq!(l.grid, (3, 1), "the case needs three rows of A4");
+        let pages = drill_template_pages(&d, &s).unwrap();
+        let rows: Vec<usize> = pages.iter().map(|p| p.row).collect();
+        // Row 2 spans stations of about 0.58 to 0.85 m: surface only.
+        assert_eq!(rows, vec![1, 3]);
+        for p in &pages {
+            assert!(p
+                .svg
+                .contains(&format!("row {}, column 1 (of 3 × 1)", p.row)));
+        }
+        assert!(pages[0].svg.contains("Assembly: 3 × 1 pages"));
     }
 
     #[test]
@@ -952,7 +1760,7 @@ mod tests {
         let top_m = 0.42 - 0.025;
         for port in &d.ports {
             let g = by_id(&doc, &format!("port-{}", port.name));
-            let c = g.children().find(|n| n.has_tag_name("circle")).unwrap();
+            let c = g.descendants().find(|n| n.has_tag_name("circle")).unwrap();
             let x = port.clock_rad.rem_euclid(TAU) * 27.0;
             let y = (port.station_m - top_m) * 1000.0;
             assert!((attr(&c, "cx") - sx - x).abs() < 0.01, "{}", port.name);
@@ -982,7 +1790,7 @@ mod tests {
     fn lean(doc: &Document, name: &str) -> Option<(f64, f64)> {
         let g = by_id(doc, &format!("port-{name}"));
         let l = g
-            .children()
+            .descendants()
             .find(|n| n.has_tag_name("line") && n.attribute("class") == Some("lean"))?;
         Some((
             attr(&l, "x2") - attr(&l, "x1"),
@@ -1172,7 +1980,7 @@ mod tests {
                 let (tx, ty) = sheet_offset(&doc);
                 windows.push((cx - tx, cy - ty, cx - tx + cw, cy - ty + ch));
                 let p = l.pages[i];
-                assert!(page.contains(&format!("page {}/{}", p.row, p.column)));
+                assert!(page.contains(&page_title(p.row, p.column, l.grid)));
             }
             // Every point of the sheet lies in some window (sampled every 0.5 mm).
             let mut y = 0.0;
@@ -1222,7 +2030,7 @@ mod tests {
                 let doc = Document::parse(page).unwrap();
                 let (tx, ty) = sheet_offset(&doc);
                 let c = by_id(&doc, &format!("port-{}", port.name))
-                    .children()
+                    .descendants()
                     .find(|n| n.has_tag_name("circle"))
                     .unwrap();
                 let (px, py) = (attr(&c, "cx") + tx, attr(&c, "cy") + ty);

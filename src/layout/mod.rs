@@ -9,6 +9,7 @@
 pub mod asbuilt;
 pub mod convert;
 pub mod file;
+pub mod precision;
 pub mod write;
 
 use crate::model::Design;

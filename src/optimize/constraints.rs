@@ -270,7 +270,7 @@ impl fmt::Display for Violation {
                     Conflict::Fin { fin } => format!("too near the root of fin {}", fin + 1),
                     Conflict::KeepOut { name } => format!("too near keep-out `{name}`"),
                 };
-                write!(f, "{what} (by {:.2} mm)", mm(*depth_m))
+                write!(f, "{what} (by {:.3} mm)", mm(*depth_m))
             }
             Breach::Spacing {
                 other,

@@ -40,6 +40,7 @@
 pub mod constraints;
 pub mod problem;
 pub mod search;
+pub mod stages;
 pub mod variables;
 
 pub use constraints::{Breach, Constraints, Limits, LimitsFile, Tolerances, Violation};
@@ -50,6 +51,7 @@ pub use search::{
     search, HistoryPoint, Objective, Outcome, Progress, Score, SearchError, SearchSettings, Stage,
     StopReason, Strategy,
 };
+pub use stages::{optimize_stages, StageOutcome, StagedResult, StagedScore, StagedSettings};
 pub use variables::{DrillSeries, Freedom, FreedomFile, Span, Together, VariableError, Variables};
 
 use crate::units::{self, Kind};

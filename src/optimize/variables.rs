@@ -26,6 +26,7 @@
 //! ```
 
 use super::SectionError;
+use crate::layout::precision::{snap_angle, snap_clock, snap_station};
 use crate::model::{Design, NozzleSpec, Port};
 use crate::units::{self, Kind};
 use serde::Deserialize;
@@ -102,10 +103,41 @@ impl DrillSeries {
     /// Drill diameters of the series in increasing order, m.
     pub fn sizes_m(self) -> Vec<f64> {
         match self {
-            DrillSeries::Metric => (5..=30).map(|k| k as f64 * 1e-4).collect(),
+            // k / 10 mm, computed as the layout reader reads "1.2 mm", so a written
+            // metric drill reads back as the same drill.
+            DrillSeries::Metric => (5..=30).map(|k| k as f64 / 10.0 * 1e-3).collect(),
             DrillSeries::FractionalInch => (2..=7).map(|k| k as f64 / 64.0 * INCH_M).collect(),
             DrillSeries::NumberDrill => NUMBER_DRILLS_IN.iter().map(|d| d * INCH_M).collect(),
         }
+    }
+
+    /// The trade name of a drill of any series whose diameter is exactly `d_m`
+    /// (`"number drill #52"`, `"1/16 in drill"`, `"1.2 mm drill"`), or `None`.
+    pub fn drill_name(d_m: f64) -> Option<String> {
+        if let Some(i) = DrillSeries::NumberDrill
+            .sizes_m()
+            .iter()
+            .position(|&s| s == d_m)
+        {
+            return Some(format!("number drill #{}", 76 - i));
+        }
+        if let Some(i) = DrillSeries::FractionalInch
+            .sizes_m()
+            .iter()
+            .position(|&s| s == d_m)
+        {
+            let (mut n, mut d) = (i + 2, 64);
+            while n % 2 == 0 {
+                n /= 2;
+                d /= 2;
+            }
+            return Some(format!("{n}/{d} in drill"));
+        }
+        DrillSeries::Metric
+            .sizes_m()
+            .iter()
+            .position(|&s| s == d_m)
+            .map(|i| format!("{:.1} mm drill", (i + 5) as f64 / 10.0))
     }
 
     /// Plain name used in layout files.
@@ -417,10 +449,28 @@ impl Variables {
                 }
                 None => keep,
             };
+            // Moved values are snapped to the precision the layout is written with,
+            // so the point the search scores is the layout that will be written.
+            let clock_free = g.clock_rad.is_some();
             let station = take(&g.station_m, lead.station_m);
+            let station = if g.station_m.is_some() {
+                snap_station(station)
+            } else {
+                station
+            };
             let clock = take(&g.clock_rad, lead.clock_rad);
             let tangential = take(&g.tangential_cant_rad, lead.tangential_cant_rad);
+            let tangential = if g.tangential_cant_rad.is_some() {
+                snap_angle(tangential)
+            } else {
+                tangential
+            };
             let axial = take(&g.axial_cant_rad, lead.axial_cant_rad);
+            let axial = if g.axial_cant_rad.is_some() {
+                snap_angle(axial)
+            } else {
+                axial
+            };
             let hole = g
                 .hole_sizes_m
                 .as_ref()
@@ -429,7 +479,11 @@ impl Variables {
                 let p = &mut ports[k];
                 p.station_m = station;
                 // Kept in [0°, 360°) so reports and templates read naturally.
-                p.clock_rad = (clock + offset).rem_euclid(TAU);
+                p.clock_rad = if clock_free || offset != 0.0 {
+                    snap_clock(clock + offset)
+                } else {
+                    (clock + offset).rem_euclid(TAU)
+                };
                 p.tangential_cant_rad = tangential;
                 p.axial_cant_rad = axial;
                 if let (Some(d), NozzleSpec::Hole { diameter_m, .. }) = (hole, &mut p.nozzle) {

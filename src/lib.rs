@@ -4,6 +4,7 @@
 pub mod airframe;
 pub mod allocation;
 pub mod analysis;
+pub mod asbuilt;
 pub mod atmosphere;
 pub mod export;
 pub mod gas;

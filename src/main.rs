@@ -142,10 +142,34 @@ fn run(cli: Cli) -> Result<()> {
             }
             eprintln!("reading {}", layout.display());
             let (design, analysis) = load_and_analyze(&layout)?;
+            let spread = cli::tolerance::for_run(&layout)?;
+            let (sections, extra) = match &spread {
+                Some(o) => {
+                    eprintln!(
+                        "sampled {} as-built vehicles from [tolerances]",
+                        o.report.samples
+                    );
+                    (
+                        portwright::asbuilt::plots::html_sections(&o.report, &o.run),
+                        portwright::asbuilt::plots::files(&o.design, &o.report, &o.run)
+                            .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?,
+                    )
+                }
+                None => (Vec::new(), Vec::new()),
+            };
             eprintln!("building tables, meshes, template, plots and the report");
-            let bundle =
-                portwright::export::bundle::bundle(&design, &analysis, &template.settings());
+            let bundle = portwright::export::bundle::bundle_with(
+                &design,
+                &analysis,
+                &template.settings(),
+                &sections,
+                extra,
+            );
             print!("{}", portwright::report::render_text(&analysis));
+            if let Some(o) = &spread {
+                println!();
+                print!("{}", portwright::asbuilt::report::render_summary(&o.report));
+            }
             println!();
             // Only the files of the bundle are written; nothing else in the
             // folder is touched.
@@ -162,6 +186,30 @@ fn run(cli: Cli) -> Result<()> {
             }
             for n in &bundle.not_written {
                 println!("{}", n.line());
+            }
+            Ok(())
+        }
+        Command::Tolerance {
+            layout,
+            samples,
+            seed,
+            json,
+            out,
+        } => {
+            let outcome = cli::tolerance::run(&layout, samples as usize, seed)?;
+            print!("{}", cli::tolerance::render(&outcome, json)?);
+            if let Some(dir) = out {
+                let files = portwright::asbuilt::plots::files(
+                    &outcome.design,
+                    &outcome.report,
+                    &outcome.run,
+                )
+                .map_err(|e| anyhow::anyhow!("{}: {e}", layout.display()))?;
+                for f in &files {
+                    let path = dir.join(&f.name);
+                    write_atomic(&path, &f.bytes, &[&layout], false)?;
+                    eprintln!("wrote {}", path.display());
+                }
             }
             Ok(())
         }

@@ -98,7 +98,13 @@ fn yaw_only() -> String {
         text = without_port(&text, p);
     }
     let text = text.replace("[[freedom]]", "[[unused]]");
-    let text = text[..text.find("[[unused]]").unwrap()].to_string();
+    // Cut at the freedoms, or at the build tolerances before them (they name ports
+    // this layout no longer has).
+    let cut = text
+        .find("[tolerances]")
+        .unwrap_or(usize::MAX)
+        .min(text.find("[[unused]]").unwrap());
+    let text = text[..cut].to_string();
     let (m, f) = (
         text.find("[[manoeuvre]]").unwrap(),
         text.find("[[state]]").unwrap(),

@@ -86,6 +86,17 @@ pub enum Term {
     /// Least side force per torque: −Σ|F_lateral| / Σ|τ| over the ports at the
     /// first state.
     SideForcePerTorque,
+    /// A low percentile (0–100) of the worst margin over sampled as-built
+    /// vehicles (the same draws for every candidate); needs [`SampledMargins`].
+    MarginAtPercentile(f64),
+}
+
+/// The worst margin of a layout over a fixed set of sampled as-built vehicles,
+/// supplied by the as-built module so this one need not know about tolerances.
+pub trait SampledMargins: Send + Sync + fmt::Debug {
+    /// Percentile `p` (0–100) over the samples of the worst margin (over states,
+    /// axes and senses) of `ports` with per-state thrusts as in `states`.
+    fn margin_percentile(&self, ports: &[Port], states: &[StateInputs], p: f64) -> f64;
 }
 
 impl fmt::Display for Term {
@@ -95,6 +106,7 @@ impl fmt::Display for Term {
             Term::RollPitchRatio(r) => write!(f, "ratio:{r}"),
             Term::GasPerTorque => write!(f, "gas"),
             Term::SideForcePerTorque => write!(f, "side-force"),
+            Term::MarginAtPercentile(p) => write!(f, "margin@p{p}"),
         }
     }
 }
@@ -181,6 +193,15 @@ impl Objective {
                 "margin" => Term::WorstMargin,
                 "gas" => Term::GasPerTorque,
                 "side-force" => Term::SideForcePerTorque,
+                n if n.starts_with("margin@p") => {
+                    let p: f64 = n[8..].trim().parse().map_err(|_| {
+                        format!("`{part}`: expected margin@pN with a percentile N such as margin@p5")
+                    })?;
+                    if !(p.is_finite() && p > 0.0 && p < 100.0) {
+                        return Err(format!("`{part}`: the percentile must be between 0 and 100"));
+                    }
+                    Term::MarginAtPercentile(p)
+                }
                 n if n.starts_with("ratio:") => {
                     let r: f64 = n[6..]
                         .trim()
@@ -193,7 +214,7 @@ impl Objective {
                 }
                 _ => {
                     return Err(format!(
-                        "`{part}`: expected margin, ratio:R, gas or side-force (several joined by `,` or `then`)"
+                        "`{part}`: expected margin, margin@pN, ratio:R, gas or side-force (several joined by `,` or `then`)"
                     ))
                 }
             };
@@ -305,6 +326,8 @@ pub struct MarginScore {
     /// The stage being maximised and the floors of the earlier stages.
     stage: usize,
     floors: Vec<f64>,
+    /// Sampled as-built vehicles for `margin@pN`.
+    spread: Option<std::sync::Arc<dyn SampledMargins>>,
 }
 
 impl MarginScore {
@@ -366,7 +389,23 @@ impl MarginScore {
             directions: fibonacci_directions(GUARANTEE_DIRECTIONS),
             stage: 0,
             floors: Vec::new(),
+            spread: None,
         })
+    }
+
+    /// Sampled as-built vehicles for the `margin@pN` term.
+    pub fn with_spread(mut self, spread: std::sync::Arc<dyn SampledMargins>) -> Self {
+        self.spread = Some(spread);
+        self
+    }
+
+    /// Whether the objective has a `margin@pN` term.
+    pub fn needs_spread(&self) -> bool {
+        self.objective
+            .stages
+            .iter()
+            .flatten()
+            .any(|(t, _)| matches!(t, Term::MarginAtPercentile(_)))
     }
 
     /// Use another objective than the worst margin.
@@ -539,6 +578,12 @@ impl MarginScore {
                     -1e9
                 }
             }
+            Term::MarginAtPercentile(p) => match &self.spread {
+                Some(s) => s.margin_percentile(ports, &w.states, p),
+                // Without samples the term cannot be scored; callers check
+                // `needs_spread` first, so this is never what a user sees.
+                None => -1e9,
+            },
             Term::SideForcePerTorque => {
                 if w.states.is_empty() {
                     return 0.0;

@@ -5,6 +5,7 @@ pub mod optimize;
 pub mod output;
 pub mod table;
 pub mod template;
+pub mod tolerance;
 pub mod values;
 
 use clap::{Parser, Subcommand};
@@ -164,6 +165,24 @@ pub enum Command {
         /// Print the before/after report as JSON.
         #[arg(long)]
         json: bool,
+    },
+    /// Sample as-built vehicles from the layout's [tolerances]: spreads of authority
+    /// and margin, cross-coupling, on/off rows that stop working, which tolerance matters.
+    Tolerance {
+        /// Layout file (TOML) with a [tolerances] section.
+        layout: PathBuf,
+        /// Number of as-built vehicles to sample (2 to 10 000 000).
+        #[arg(long, default_value_t = 2000, value_parser = clap::value_parser!(u64).range(2..=10_000_000))]
+        samples: u64,
+        /// Random seed: the same seed gives the same numbers on any number of threads.
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
+        /// Print JSON instead of text.
+        #[arg(long)]
+        json: bool,
+        /// Also write the report (text and JSON) and its plots into this folder.
+        #[arg(long)]
+        out: Option<PathBuf>,
     },
 }
 

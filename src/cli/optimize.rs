@@ -90,10 +90,15 @@ fn summarize(
     a: &Analysis,
     objective: &Objective,
     side: SideForceLimit,
+    spread: Option<std::sync::Arc<dyn portwright::analysis::score::SampledMargins>>,
 ) -> Result<Summary> {
     let score = MarginScore::new(design, a, &[])?
         .with_objective(objective.clone())
         .with_side_force(side);
+    let score = match spread {
+        Some(s) => score.with_spread(s),
+        None => score,
+    };
     let authority = score.authority(&design.ports);
     let guaranteed = score.guaranteed(&design.ports);
     let mut states = Vec::new();
@@ -203,6 +208,11 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
     let base = MarginScore::new(&design, &before, &sizes)?
         .with_objective(objective.clone())
         .with_side_force(side);
+    let spread = super::tolerance::robust_margins(&base, text, source, &design, &before, seed)?;
+    let base = match &spread {
+        Some(s) => base.with_spread(s.clone()),
+        None => base,
+    };
 
     // One search per stage of the objective; later stages start from the earlier
     // answer, keep the earlier stages within `then_within` of their best, and are
@@ -275,8 +285,8 @@ pub fn run(text: &str, source: &str, opts: &Options, stop: &AtomicBool) -> Resul
             .collect(),
         kept,
     };
-    let b = summarize(&design, &before, &objective, side)?;
-    let a = summarize(&reread, &after, &objective, side)?;
+    let b = summarize(&design, &before, &objective, side, spread.clone())?;
+    let a = summarize(&reread, &after, &objective, side, spread)?;
     let report = report(
         &design,
         &reread,

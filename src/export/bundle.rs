@@ -238,7 +238,7 @@ pub fn html_report(
     analysis: &Analysis,
     plots: &[NamedPlot],
 ) -> Result<String, String> {
-    html_report_listing(design, analysis, plots, &[], None)
+    html_report_listing(design, analysis, plots, &[], None, &[])
 }
 
 /// What the report says about the firmware tables `run` wrote: the flight
@@ -284,13 +284,15 @@ pub fn tables_summary(t: &FirmwareTables) -> Vec<String> {
 }
 
 /// The HTML report, with a section listing the outputs that could not be made
-/// (none when `not_written` is empty).
+/// (none when `not_written` is empty) and further sections (for example the
+/// as-built spread) placed before the findings.
 pub fn html_report_listing(
     design: &Design,
     analysis: &Analysis,
     plots: &[NamedPlot],
     not_written: &[NotWritten],
     tables: Option<&FirmwareTables>,
+    extra: &[Section],
 ) -> Result<String, String> {
     let mut sections = Vec::new();
     if !not_written.is_empty() {
@@ -462,6 +464,7 @@ pub fn html_report_listing(
             blocks: vec![Block::List(tables_summary(t))],
         });
     }
+    sections.extend(extra.iter().cloned());
     sections.push(Section {
         heading: "Findings".to_string(),
         blocks: vec![Block::List(analysis.findings.clone())],
@@ -515,6 +518,19 @@ pub fn state_tables(
 
 /// Every output file for the layout, and the outputs that could not be made.
 pub fn bundle(design: &Design, analysis: &Analysis, template: &TemplateSettings) -> Bundle {
+    bundle_with(design, analysis, template, &[], Vec::new())
+}
+
+/// Every output file for the layout, with further report sections (placed
+/// before the findings) and further files (written after the others), and the
+/// outputs that could not be made.
+pub fn bundle_with(
+    design: &Design,
+    analysis: &Analysis,
+    template: &TemplateSettings,
+    extra_sections: &[Section],
+    extra_files: Vec<OutputFile>,
+) -> Bundle {
     let mut files = Vec::new();
     let mut not_written = Vec::new();
     let mut push = |name: &str, bytes: Vec<u8>| {
@@ -608,10 +624,18 @@ pub fn bundle(design: &Design, analysis: &Analysis, template: &TemplateSettings)
             Err(e) => skip(&mut not_written, &format!("{}.png", p.name), e.to_string()),
         }
     }
-    match html_report_listing(design, analysis, &plots, &not_written, made_tables.as_ref()) {
+    match html_report_listing(
+        design,
+        analysis,
+        &plots,
+        &not_written,
+        made_tables.as_ref(),
+        extra_sections,
+    ) {
         Ok(html) => push("report.html", html.into_bytes()),
         Err(e) => skip(&mut not_written, "report.html", e),
     }
+    files.extend(extra_files);
     Bundle { files, not_written }
 }
 

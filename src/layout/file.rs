@@ -43,6 +43,12 @@ pub struct LayoutFile {
     pub limits: Option<Spanned<LimitsFile>>,
     /// How the optimiser searches.
     pub optimize: Option<Spanned<SearchFile>>,
+    /// Build tolerances: read by `layout::asbuilt`, kept raw here.
+    #[serde(default)]
+    pub tolerances: Option<toml::Value>,
+    /// Measured ports: read by `layout::asbuilt`, kept raw here.
+    #[serde(default)]
+    pub measured: Option<toml::Value>,
 }
 
 /// `[airframe]`.

@@ -6,6 +6,7 @@
 //! the caller adds the file name. [`parse_str`] does the work, [`load`] only reads
 //! the file, so tests never touch the disk.
 
+pub mod asbuilt;
 pub mod convert;
 pub mod file;
 pub mod locate;
@@ -122,8 +123,59 @@ fn invalid(source_name: &str, problems: Vec<Diagnostic>) -> LayoutError {
     }
 }
 
-/// Parse layout text into the design. `source_name` is used only in messages.
+/// Parse layout text. `source_name` is used only in messages. Ports listed in
+/// `[[measured]]` come back as built (measured geometry, discharge coefficient
+/// calibrated to the stand test); [`parse_str_as_drawn`] gives the drawn design.
 pub fn parse_str(text: &str, source_name: &str) -> Result<Design, LayoutError> {
+    let drawn = parse_str_as_drawn(text, source_name)?;
+    let sections = asbuilt_sections(text, source_name, &drawn)?;
+    if sections.measured.is_empty() {
+        return Ok(drawn);
+    }
+    let (mut built, comparison) = crate::asbuilt::measured::apply(&drawn, &sections.measured)
+        .map_err(|e| {
+            let at = text.find("[[measured]]").unwrap_or(0);
+            let (line, column) = line_column(text, at);
+            LayoutError::Invalid {
+                source_name: source_name.to_string(),
+                problems: vec![Diagnostic {
+                    line,
+                    column,
+                    field: "measured".to_string(),
+                    message: e.to_string(),
+                }],
+            }
+        })?;
+    built.readings.push(format!(
+        "{} port(s) as built from [[measured]]: {}",
+        comparison.len(),
+        comparison
+            .iter()
+            .map(|c| format!(
+                "`{}` (discharge coefficient {:.3} as drawn, {:.3} as built)",
+                c.port, c.discharge_coefficient[0], c.discharge_coefficient[1]
+            ))
+            .collect::<Vec<_>>()
+            .join(", ")
+    ));
+    Ok(built)
+}
+
+/// The `[tolerances]` and `[[measured]]` sections of `text`, checked against `design`.
+pub fn asbuilt_sections(
+    text: &str,
+    source_name: &str,
+    design: &Design,
+) -> Result<asbuilt::AsBuiltSections, LayoutError> {
+    asbuilt::read(text, design).map_err(|problems| LayoutError::Invalid {
+        source_name: source_name.to_string(),
+        problems,
+    })
+}
+
+/// Parse layout text as drawn: `[[measured]]` is not applied (nor checked;
+/// [`parse_str`] checks it). `source_name` is used only in messages.
+pub fn parse_str_as_drawn(text: &str, source_name: &str) -> Result<Design, LayoutError> {
     parse_layout(text, source_name).map(|l| l.design)
 }
 

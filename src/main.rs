@@ -142,8 +142,19 @@ fn run(cli: Cli) -> Result<()> {
             }
             eprintln!("reading {}", layout.display());
             let (design, analysis) = load_and_analyze(&layout)?;
-            let spread = cli::tolerance::for_run(&layout)?;
-            let (sections, extra) = match &spread {
+            // The as-built sampling is one output among others: when it cannot be made (a
+            // layout beyond the on/off tables' port limit, say), everything else is still written.
+            let (spread, spread_missing) = match cli::tolerance::for_run(&layout) {
+                Ok(s) => (s, None),
+                Err(e) => (
+                    None,
+                    Some(portwright::export::bundle::NotWritten {
+                        files: "tolerance.txt, tolerance.json and the as-built plots".to_string(),
+                        reason: format!("{e:#}"),
+                    }),
+                ),
+            };
+            let (mut sections, extra) = match &spread {
                 Some(o) => {
                     eprintln!(
                         "sampled {} as-built vehicles from [tolerances]",
@@ -157,8 +168,14 @@ fn run(cli: Cli) -> Result<()> {
                 }
                 None => (Vec::new(), Vec::new()),
             };
+            if let Some(n) = &spread_missing {
+                sections.push(portwright::export::html::Section {
+                    heading: "As built: tolerances".to_string(),
+                    blocks: vec![portwright::export::html::Block::Paragraph(n.line())],
+                });
+            }
             eprintln!("building tables, meshes, template, plots and the report");
-            let bundle = portwright::export::bundle::bundle_with(
+            let mut bundle = portwright::export::bundle::bundle_with(
                 &design,
                 &analysis,
                 &template.settings(),
@@ -184,6 +201,7 @@ fn run(cli: Cli) -> Result<()> {
                 };
                 println!("{how} {} ({} bytes)", path.display(), f.bytes.len());
             }
+            bundle.not_written.extend(spread_missing);
             for n in &bundle.not_written {
                 println!("{}", n.line());
             }

@@ -1642,7 +1642,13 @@ mod tests {
     }
 
     proptest::proptest! {
-        #![proptest_config(proptest::prelude::ProptestConfig { cases: 40, ..Default::default() })]
+        // A fixed seed: the same 40 layouts every run, so a run is repeatable; the
+        // placement is not proven clear for every possible layout (see the README).
+        #![proptest_config(proptest::prelude::ProptestConfig {
+            cases: 40,
+            rng_seed: proptest::test_runner::RngSeed::Fixed(0x5eed_0001),
+            ..Default::default()
+        })]
 
         #[test]
         fn no_two_printed_items_touch_on_random_layouts(

@@ -20,8 +20,8 @@ pub struct Outcome {
 /// Read the layout, sample, compare measured ports.
 pub fn run(path: &Path, samples: usize, seed: u64) -> Result<Outcome> {
     let name = path.display().to_string();
-    let text =
-        std::fs::read_to_string(path).with_context(|| format!("{name}: cannot read the layout"))?;
+    // The same bounded, UTF-8-checked read as every other command.
+    let text = layout::read_text(path)?;
     let design = layout::parse_str(&text, &name)?;
     let sections = layout::asbuilt_sections(&text, &name, &design)?;
     let Some(spec) = sections.tolerances else {
@@ -57,8 +57,8 @@ pub const RUN_SAMPLES: usize = 2000;
 /// For `run`: the spread when the layout has a `[tolerances]` section.
 pub fn for_run(path: &Path) -> Result<Option<Outcome>> {
     let name = path.display().to_string();
-    let text =
-        std::fs::read_to_string(path).with_context(|| format!("{name}: cannot read the layout"))?;
+    // The same bounded, UTF-8-checked read as every other command.
+    let text = layout::read_text(path)?;
     let design = layout::parse_str(&text, &name)?;
     if layout::asbuilt_sections(&text, &name, &design)?
         .tolerances

@@ -354,8 +354,11 @@ pub struct Feed {
     pub gas: Gas,
     /// Tank.
     pub tank: Tank,
-    /// Regulator.
+    /// Regulator (the stage that sets the working pressure at the valves).
     pub regulator: Regulator,
+    /// Optional high-pressure stage between tank and `regulator`, reducing tank pressure to an
+    /// intermediate pressure; `None` for a single-stage feed.
+    pub first_stage: Option<Regulator>,
     /// Valve (one per port).
     pub valve: Valve,
 }

@@ -322,6 +322,7 @@ pub(crate) mod fixture {
                     dropout_margin_pa: 3e5,
                     supply: SupplyCapacity::Unlimited,
                 },
+                first_stage: None,
                 valve: Valve {
                     flow: ValveFlow::Orifice {
                         diameter_m: 0.0012,

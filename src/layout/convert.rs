@@ -732,6 +732,7 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
         gas,
         tank,
         regulator,
+        first_stage: None,
         valve,
     }
 }

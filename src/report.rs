@@ -4,6 +4,7 @@
 //! bar and psi) while the JSON form keeps SI with the unit in each field name.
 
 pub mod allocate;
+pub mod optimize;
 
 use crate::analysis::Analysis;
 use comfy_table::{presets::UTF8_FULL_CONDENSED, Cell, CellAlignment, Table};

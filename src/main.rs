@@ -154,7 +154,8 @@ fn run(cli: Cli) -> Result<()> {
                     }),
                 ),
             };
-            let (mut sections, extra) = match &spread {
+            let mut trade_missing = None;
+            let (mut sections, mut extra) = match &spread {
                 Some(o) => {
                     eprintln!(
                         "sampled {} as-built vehicles from [tolerances]",
@@ -173,6 +174,26 @@ fn run(cli: Cli) -> Result<()> {
                     heading: "As built: tolerances".to_string(),
                     blocks: vec![portwright::export::html::Block::Paragraph(n.line())],
                 });
+            }
+            // The trade study, when the layout names a parts file: one output among others.
+            match cli::trade::for_run(&layout) {
+                Ok(Some(t)) => {
+                    eprintln!("trade study over {}", t.parts_path.display());
+                    sections.extend(t.sections());
+                    extra.extend(t.files()?);
+                }
+                Ok(None) => {}
+                Err(e) => {
+                    let n = portwright::export::bundle::NotWritten {
+                        files: "trade.txt, trade.json and the trade plots".to_string(),
+                        reason: format!("{e:#}"),
+                    };
+                    sections.push(portwright::export::html::Section {
+                        heading: "Parts: trade study".to_string(),
+                        blocks: vec![portwright::export::html::Block::Paragraph(n.line())],
+                    });
+                    trade_missing = Some(n);
+                }
             }
             eprintln!("building tables, meshes, template, plots and the report");
             let mut bundle = portwright::export::bundle::bundle_with(
@@ -202,6 +223,7 @@ fn run(cli: Cli) -> Result<()> {
                 println!("{how} {} ({} bytes)", path.display(), f.bytes.len());
             }
             bundle.not_written.extend(spread_missing);
+            bundle.not_written.extend(trade_missing);
             for n in &bundle.not_written {
                 println!("{}", n.line());
             }
@@ -226,6 +248,29 @@ fn run(cli: Cli) -> Result<()> {
                 for f in &files {
                     let path = dir.join(&f.name);
                     write_atomic(&path, &f.bytes, &[&layout], false)?;
+                    eprintln!("wrote {}", path.display());
+                }
+            }
+            Ok(())
+        }
+        Command::Trade {
+            layout,
+            parts,
+            seed,
+            json,
+            out,
+        } => {
+            let settings = portwright::trade::StudySettings {
+                seed,
+                ..Default::default()
+            };
+            let outcome = cli::trade::run(&layout, parts.as_deref(), &settings)?;
+            print!("{}", outcome.render(json)?);
+            if let Some(dir) = out {
+                let inputs = [layout.as_path(), outcome.parts_path.as_path()];
+                for f in &outcome.files()? {
+                    let path = dir.join(&f.name);
+                    write_atomic(&path, &f.bytes, &inputs, false)?;
                     eprintln!("wrote {}", path.display());
                 }
             }

@@ -6,6 +6,7 @@ pub mod output;
 pub mod table;
 pub mod template;
 pub mod tolerance;
+pub mod trade;
 pub mod values;
 
 use clap::{Parser, Subcommand};
@@ -175,6 +176,25 @@ pub enum Command {
         #[arg(long, default_value_t = 2000, value_parser = clap::value_parser!(u64).range(2..=10_000_000))]
         samples: u64,
         /// Random seed: the same seed gives the same numbers on any number of threads.
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
+        /// Print JSON instead of text.
+        #[arg(long)]
+        json: bool,
+        /// Also write the report (text and JSON) and its plots into this folder.
+        #[arg(long)]
+        out: Option<PathBuf>,
+    },
+    /// Trade study over candidate parts: which valve, regulator, tank and hole sizes
+    /// meet the requirements best (Pareto set, lightest), and what one part would need to be.
+    #[command(after_help = AFTER_HELP)]
+    Trade {
+        /// Layout file (TOML) with a [parts] section.
+        layout: PathBuf,
+        /// Parts file (TOML); default: the file named in the layout's [parts] section.
+        #[arg(long)]
+        parts: Option<PathBuf>,
+        /// Seed of the search used when the catalogue is too large to try every combination.
         #[arg(long, default_value_t = 1)]
         seed: u64,
         /// Print JSON instead of text.

@@ -1257,6 +1257,178 @@ pub fn svg_to_png(svg: &str, scale: f32) -> Result<Vec<u8>, PlotError> {
         .map_err(|e| PlotError::Render(e.to_string()))
 }
 
+// ---------------------------------------------------------------------------
+// Marker and line charts for studies (trade study: Pareto set, property sweeps)
+
+/// A set of markers, each with its own colour.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MarkerSet {
+    /// Legend text; empty for no legend entry.
+    pub name: String,
+    /// Points, axis units.
+    pub points: Vec<(f64, f64)>,
+    /// Colour of each point (RGB); one per point.
+    pub colours: Vec<(u8, u8, u8)>,
+    /// Marker radius, px.
+    pub radius: u32,
+    /// Filled discs, or rings.
+    pub filled: bool,
+}
+
+/// A polyline.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Polyline {
+    /// Legend text; empty for no legend entry.
+    pub name: String,
+    /// Points, axis units, in drawing order.
+    pub points: Vec<(f64, f64)>,
+    /// Colour (RGB).
+    pub colour: (u8, u8, u8),
+    /// Dashed rather than solid.
+    pub dashed: bool,
+}
+
+/// A chart of markers and lines with reference lines across or up.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MarkerChart {
+    /// Title.
+    pub title: String,
+    /// Description of the x axis, with its unit.
+    pub x_desc: String,
+    /// Description of the y axis, with its unit.
+    pub y_desc: String,
+    /// Marker sets, drawn in order (later on top).
+    pub markers: Vec<MarkerSet>,
+    /// Lines, drawn under the markers.
+    pub lines: Vec<Polyline>,
+    /// Horizontal reference lines: y value and legend text (dashed, in the disturbance colour).
+    pub horizontal: Vec<(f64, String)>,
+    /// Vertical reference lines: x value and legend text (dashed, muted).
+    pub vertical: Vec<(f64, String)>,
+}
+
+/// Draw a [`MarkerChart`]; every value must be finite.
+pub fn marker_chart_svg(c: &MarkerChart, s: &PlotSettings) -> Result<Plot, PlotError> {
+    let mut xs: Vec<f64> = Vec::new();
+    let mut ys: Vec<f64> = Vec::new();
+    for m in &c.markers {
+        check_points("marker", &m.points)?;
+        xs.extend(m.points.iter().map(|p| p.0));
+        ys.extend(m.points.iter().map(|p| p.1));
+    }
+    for l in &c.lines {
+        check_points("line", &l.points)?;
+        xs.extend(l.points.iter().map(|p| p.0));
+        ys.extend(l.points.iter().map(|p| p.1));
+    }
+    check_values(
+        "horizontal line",
+        &c.horizontal.iter().map(|h| h.0).collect::<Vec<_>>(),
+        false,
+    )?;
+    check_values(
+        "vertical line",
+        &c.vertical.iter().map(|v| v.0).collect::<Vec<_>>(),
+        false,
+    )?;
+    xs.extend(c.vertical.iter().map(|v| v.0));
+    ys.extend(c.horizontal.iter().map(|h| h.0));
+    let lo = |v: &[f64]| v.iter().copied().fold(f64::INFINITY, f64::min);
+    let hi = |v: &[f64]| v.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    let (x0, x1) = if xs.is_empty() {
+        (0.0, 1.0)
+    } else {
+        (lo(&xs), hi(&xs))
+    };
+    let (y0, y1) = if ys.is_empty() {
+        (0.0, 1.0)
+    } else {
+        (lo(&ys), hi(&ys))
+    };
+    let x = padded(x0, x1, false);
+    let y = padded(y0.min(0.0), y1, true);
+    let rgb = |c: (u8, u8, u8)| RGBColor(c.0, c.1, c.2);
+    let mut legend: Vec<(Swatch, String)> = Vec::new();
+    for l in c.lines.iter().filter(|l| !l.name.is_empty()) {
+        legend.push((
+            if l.dashed {
+                Swatch::Dashed(rgb(l.colour))
+            } else {
+                Swatch::Line(rgb(l.colour))
+            },
+            l.name.clone(),
+        ));
+    }
+    for m in c.markers.iter().filter(|m| !m.name.is_empty()) {
+        let colour = m.colours.first().copied().map_or(INK, rgb);
+        legend.push((Swatch::Fill(colour), m.name.clone()));
+    }
+    for (_, t) in c.horizontal.iter().filter(|h| !h.1.is_empty()) {
+        legend.push((Swatch::Dashed(DISTURBANCE), t.clone()));
+    }
+    for (_, t) in c.vertical.iter().filter(|v| !v.1.is_empty()) {
+        legend.push((Swatch::Dashed(MUTED), t.clone()));
+    }
+    render_svg(s, |root| {
+        draw_band(root, s, &c.title, &legend)?;
+        let (_, lower) = root.split_vertically(s.title_band_px);
+        let mut chart = build_chart(&lower, s, s.y_label_area_px, x.clone(), y.clone())?;
+        draw_mesh(&mut chart, s, &c.x_desc, &c.y_desc, 9)?;
+        for (v, _) in &c.horizontal {
+            chart
+                .draw_series(std::iter::once(DashedPathElement::new(
+                    vec![(x.start, *v), (x.end, *v)],
+                    8,
+                    5,
+                    DISTURBANCE.stroke_width(2),
+                )))
+                .map_err(draw_err)?;
+        }
+        for (v, _) in &c.vertical {
+            chart
+                .draw_series(std::iter::once(DashedPathElement::new(
+                    vec![(*v, y.start), (*v, y.end)],
+                    6,
+                    4,
+                    MUTED.stroke_width(2),
+                )))
+                .map_err(draw_err)?;
+        }
+        for l in &c.lines {
+            let style = rgb(l.colour).stroke_width(2);
+            if l.dashed {
+                chart
+                    .draw_series(std::iter::once(DashedPathElement::new(
+                        l.points.clone(),
+                        8,
+                        5,
+                        style,
+                    )))
+                    .map_err(draw_err)?;
+            } else {
+                chart
+                    .draw_series(std::iter::once(PathElement::new(l.points.clone(), style)))
+                    .map_err(draw_err)?;
+            }
+        }
+        for m in &c.markers {
+            let r = m.radius.clamp(1, 20) as i32;
+            chart
+                .draw_series(m.points.iter().enumerate().map(|(k, &p)| {
+                    let colour = m.colours.get(k).copied().map_or(INK, rgb);
+                    let style = if m.filled {
+                        colour.filled()
+                    } else {
+                        colour.stroke_width(2)
+                    };
+                    Circle::new(p, r, style)
+                }))
+                .map_err(draw_err)?;
+        }
+        Ok(vec![frame_of(&chart)])
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

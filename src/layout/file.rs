@@ -49,6 +49,9 @@ pub struct LayoutFile {
     /// Measured ports: read by `layout::asbuilt`, kept raw here.
     #[serde(default)]
     pub measured: Option<toml::Value>,
+    /// The trade study's parts file and part stations: read by `layout::parts`, kept raw here.
+    #[serde(default)]
+    pub parts: Option<toml::Value>,
 }
 
 /// `[airframe]`.

@@ -11,6 +11,7 @@ pub mod convert;
 pub mod file;
 pub mod locate;
 pub mod optimizer;
+pub mod parts;
 mod syntax;
 mod text_bounds;
 pub use crate::precision;
@@ -201,6 +202,12 @@ pub fn parse_layout(text: &str, source_name: &str) -> Result<Layout, LayoutError
         text,
         &mut problems,
     );
+    // `[parts]` (the trade study's placement) is checked here so every command refuses it alike.
+    if let Ok(d) = &design {
+        if let Err(p) = parts::section(text, d) {
+            problems.extend(p);
+        }
+    }
     match design {
         Ok(mut design) if problems.is_empty() => {
             // The drillable-cant rule of `[limits]` is also checked by the analysis.

@@ -68,7 +68,7 @@ pub fn pareto_svg(
         format!(" {currency}")
     };
     let mut markers = vec![MarkerSet {
-        name: "rest of the accepted".to_string(),
+        name: "accepted".to_string(),
         points: all.iter().map(|p| (p.0, p.1)).collect(),
         colours: vec![OTHERS; all.len()],
         radius: 3,
@@ -91,7 +91,7 @@ pub fn pareto_svg(
         });
         if p1 > p0 {
             markers.push(MarkerSet {
-                name: format!("dearest {p1:.0}{cur}"),
+                name: format!("to {p1:.0}{cur}"),
                 points: Vec::new(),
                 colours: vec![DEAR],
                 radius: 5,
@@ -104,7 +104,7 @@ pub fn pareto_svg(
         .and_then(|i| margin_point(&study.evaluated[i]))
     {
         markers.push(MarkerSet {
-            name: "lightest meeting every requirement".to_string(),
+            name: "lightest meeting all".to_string(),
             points: vec![(p.0, p.1)],
             colours: vec![(33, 37, 41)],
             radius: 9,

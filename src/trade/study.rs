@@ -104,10 +104,7 @@ fn evaluate_batch(
 }
 
 /// Pareto set and lightest over evaluated combinations (any order).
-fn rank(
-    evaluated: &[Evaluated],
-    r: &Resolution,
-) -> (Vec<usize>, Option<usize>, bool) {
+fn rank(evaluated: &[Evaluated], r: &Resolution) -> (Vec<usize>, Option<usize>, bool) {
     let accepted: Vec<usize> = (0..evaluated.len())
         .filter(|&i| evaluated[i].metrics().is_some())
         .collect();

@@ -476,3 +476,50 @@ fn fast_path_agrees_with_the_full_analysis_on_both_demos() {
         assert!(accepted >= 8, "{accepted} accepted");
     }
 }
+
+// ---------------------------------------------------------------- monotone margins
+
+fn all_margins(d: &Design, c: &Catalogue, ch: &Choice, p: Property, x: f64) -> Vec<f64> {
+    let c = what_it_takes::with_value(c, ch, p, x);
+    let a = crate::analysis::analyze(&combine::apply(d, &c, ch)).expect("analyses");
+    a.states
+        .iter()
+        .flat_map(|s| s.authority.iter().map(|x| x.margin))
+        .collect()
+}
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig { cases: 12, ..Default::default() })]
+
+    /// More valve Cv passes more flow into the same nozzle, so every port's
+    /// thrust, and every margin, can only rise (nothing else changes).
+    /// A higher set pressure raises every port's thrust; the gas left at each
+    /// state changes the inertia by far less, so margins rise too on the demos.
+    #[test]
+    fn margins_rise_with_valve_cv_and_set_pressure(
+        valve in 0usize..4,
+        holes in 0usize..4,
+        roll in 0usize..2,
+        heron in proptest::bool::ANY,
+        which in 0usize..2,
+        a in 0.0f64..1.0,
+        b in 0.0f64..1.0,
+    ) {
+        let (d, c) = demo(if heron { HERON } else { OSPREY });
+        let ch = Choice { valve, regulator: 1, set_pressure: 1, tank: if heron { 0 } else { 2 }, holes: vec![holes, roll] };
+        let (p, lo, hi) = if which == 0 {
+            (Property::ValveCv, 0.01, 0.2)
+        } else {
+            (Property::SetPressure, 0.4e6, 1.6e6)
+        };
+        let (x1, x2) = (lo + (hi - lo) * a.min(b), lo + (hi - lo) * a.max(b));
+        let m1 = all_margins(&d, &c, &ch, p, x1);
+        let m2 = all_margins(&d, &c, &ch, p, x2);
+        for (u, v) in m1.iter().zip(&m2) {
+            if u.is_finite() {
+                // 1e-9 relative: the flow solver's own convergence tolerance is finer.
+                proptest::prop_assert!(*v >= u * (1.0 - 1e-9), "{p:?}: {x1} gives {u}, {x2} gives {v}");
+            }
+        }
+    }
+}

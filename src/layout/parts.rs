@@ -25,6 +25,10 @@ type Q = Spanned<String>;
 /// tanks, hole sizes, set pressures); a real list has a handful.
 pub const MAX_LIST: usize = 1000;
 
+/// Most combinations a parts file may make (10¹⁵): far more than any search
+/// visits, and small enough that every combination number fits in 64 bits.
+pub const MAX_COMBINATIONS: u64 = 1_000_000_000_000_000;
+
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
 struct PartsFile {
@@ -650,6 +654,25 @@ pub fn parse_str(
                 format!("the parts file lists no {what}: add at least one `{example}` entry"),
             );
         }
+    }
+    let mut combinations: u64 = 1;
+    for k in [
+        valves.len(),
+        regulators.len(),
+        set_pressures_gauge_pa.len(),
+        tanks.len(),
+    ]
+    .into_iter()
+    .chain(holes.iter().map(|h| h.diameters_m.len()))
+    {
+        combinations = combinations.saturating_mul(k.max(1) as u64);
+    }
+    if combinations > MAX_COMBINATIONS {
+        r.problem(
+            whole.clone(),
+            "",
+            format!("the lists make {combinations} combinations; at most {MAX_COMBINATIONS} are accepted (the study searches large catalogues, but their numbering must fit)"),
+        );
     }
     if !r.problems.is_empty() {
         return Err(invalid(source_name, r.problems));

@@ -523,3 +523,31 @@ proptest::proptest! {
         }
     }
 }
+
+#[test]
+fn a_catalogue_too_large_to_number_is_refused() {
+    // Seven hole groups of 1000 sizes would make 10^21 combinations with the rest.
+    let sizes: Vec<String> = (0..1000)
+        .map(|k| format!("\"{:.3} mm\"", 1.0 + k as f64 * 0.001))
+        .collect();
+    let mut parts = PARTS.split("[[holes]]").next().unwrap().to_string();
+    for (k, p) in [
+        "yaw-neg",
+        "yaw-pos",
+        "pitch-pos",
+        "pitch-neg",
+        "roll-pos-a",
+        "roll-pos-b",
+        "roll-neg-a",
+    ]
+    .iter()
+    .enumerate()
+    {
+        parts.push_str(&format!(
+            "[[holes]]\nname = \"g{k}\"\nports = [\"{p}\"]\nsizes = [{}]\n",
+            sizes.join(", ")
+        ));
+    }
+    let e = parts_error(&parts);
+    assert!(e.contains("combinations; at most 1000000000000000"), "{e}");
+}

@@ -14,4 +14,5 @@ pub mod model;
 pub mod optimize;
 pub mod precision;
 pub mod report;
+pub mod sim;
 pub mod units;

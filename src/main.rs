@@ -231,6 +231,27 @@ fn run(cli: Cli) -> Result<()> {
             }
             Ok(())
         }
+        Command::Simulate {
+            layout,
+            case,
+            out,
+            json,
+            runs,
+            seed,
+        } => {
+            let cases = cli::simulate::run(&layout, case.as_deref(), runs as usize, seed)?;
+            print!("{}", cli::simulate::render(&cases, json)?);
+            if let Some(dir) = out {
+                let (files, _) = cli::simulate::files(&cases)?;
+                for f in &files {
+                    let path = dir.join(&f.name);
+                    check_distinct(&[("--out", &path)], &[&layout])?;
+                    write_atomic(&path, &f.bytes, &[&layout], false)?;
+                    eprintln!("wrote {}", path.display());
+                }
+            }
+            Ok(())
+        }
         Command::Template {
             layout,
             out,

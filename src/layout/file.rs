@@ -49,6 +49,9 @@ pub struct LayoutFile {
     /// Measured ports: read by `layout::asbuilt`, kept raw here.
     #[serde(default)]
     pub measured: Option<toml::Value>,
+    /// Simulation cases: read by `layout::cases`, kept raw here.
+    #[serde(default)]
+    pub case: Option<toml::Value>,
 }
 
 /// `[airframe]`.

@@ -9,7 +9,10 @@
 //! step of 1 ms is far below the other model errors).
 //!
 //! A mount may lock some body axes (a test stand): the rate about a locked axis
-//! stays zero and the torque about it is taken by the stand.
+//! stays zero, the torque about it is taken by the stand, and the free axes turn
+//! with the free block of the inertia tensor (a body on a roll line turns with
+//! I_xx alone). The gyroscopic term is kept on the free axes (small for the
+//! low rates of a stand).
 
 use nalgebra::{Matrix3, Quaternion, UnitQuaternion, Vector3};
 
@@ -74,7 +77,21 @@ impl Body {
         if sym.iter().any(|v| !v.is_finite()) || sym.cholesky().is_none() {
             return Err(BodyError::NotPositiveDefinite);
         }
-        let inverse = sym.try_inverse().ok_or(BodyError::NotPositiveDefinite)?;
+        // A mount that locks axes leaves rotation about the free axes only: the
+        // acceleration solves the free block of the inertia tensor, the stand
+        // takes the torque about the locked axes.
+        let idx: Vec<usize> = (0..3).filter(|&k| free[k]).collect();
+        let mut inverse = Matrix3::zeros();
+        if !idx.is_empty() {
+            let n = idx.len();
+            let block = nalgebra::DMatrix::from_fn(n, n, |i, j| sym[(idx[i], idx[j])]);
+            let inv = block.try_inverse().ok_or(BodyError::NotPositiveDefinite)?;
+            for i in 0..n {
+                for j in 0..n {
+                    inverse[(idx[i], idx[j])] = inv[(i, j)];
+                }
+            }
+        }
         Ok(Body {
             inertia: sym,
             inverse,

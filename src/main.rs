@@ -154,7 +154,19 @@ fn run(cli: Cli) -> Result<()> {
                     }),
                 ),
             };
-            let (mut sections, extra) = match &spread {
+            // The simulation of each [[case]] is one output among others too.
+            let (sim_sections, sim_files, sim_missing) = match cli::simulate::for_run(&layout) {
+                Ok((files, sections)) => (sections, files, None),
+                Err(e) => (
+                    Vec::new(),
+                    Vec::new(),
+                    Some(portwright::export::bundle::NotWritten {
+                        files: "the simulation files (sim-*)".to_string(),
+                        reason: format!("{e:#}"),
+                    }),
+                ),
+            };
+            let (mut sections, mut extra) = match &spread {
                 Some(o) => {
                     eprintln!(
                         "sampled {} as-built vehicles from [tolerances]",
@@ -171,6 +183,14 @@ fn run(cli: Cli) -> Result<()> {
             if let Some(n) = &spread_missing {
                 sections.push(portwright::export::html::Section {
                     heading: "As built: tolerances".to_string(),
+                    blocks: vec![portwright::export::html::Block::Paragraph(n.line())],
+                });
+            }
+            sections.extend(sim_sections);
+            extra.extend(sim_files);
+            if let Some(n) = &sim_missing {
+                sections.push(portwright::export::html::Section {
+                    heading: "Simulation".to_string(),
                     blocks: vec![portwright::export::html::Block::Paragraph(n.line())],
                 });
             }
@@ -202,6 +222,7 @@ fn run(cli: Cli) -> Result<()> {
                 println!("{how} {} ({} bytes)", path.display(), f.bytes.len());
             }
             bundle.not_written.extend(spread_missing);
+            bundle.not_written.extend(sim_missing);
             for n in &bundle.not_written {
                 println!("{}", n.line());
             }

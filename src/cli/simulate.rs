@@ -135,3 +135,15 @@ pub fn files(cases: &[CaseOutcome]) -> Result<(Vec<OutputFile>, Vec<Section>)> {
     }
     Ok((files, sections))
 }
+
+/// For `run`: the files and report sections of every case (none when the layout has no `[[case]]`).
+pub fn for_run(path: &Path) -> Result<(Vec<OutputFile>, Vec<Section>)> {
+    let name = path.display().to_string();
+    let text = layout::read_text(path)?;
+    let design = layout::parse_str(&text, &name)?;
+    if layout::case_sections(&text, &name, &design)?.is_empty() {
+        return Ok((Vec::new(), Vec::new()));
+    }
+    let cases = run(path, None, 0, 1)?;
+    files(&cases)
+}

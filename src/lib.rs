@@ -14,5 +14,6 @@ pub mod model;
 pub mod optimize;
 pub mod precision;
 pub mod report;
+pub mod sim;
 pub mod trade;
 pub mod units;

@@ -155,6 +155,18 @@ fn run(cli: Cli) -> Result<()> {
                 ),
             };
             let mut trade_missing = None;
+            // The simulation of each [[case]] is one output among others too.
+            let (sim_sections, sim_files, sim_missing) = match cli::simulate::for_run(&layout) {
+                Ok((files, sections)) => (sections, files, None),
+                Err(e) => (
+                    Vec::new(),
+                    Vec::new(),
+                    Some(portwright::export::bundle::NotWritten {
+                        files: "the simulation files (sim-*)".to_string(),
+                        reason: format!("{e:#}"),
+                    }),
+                ),
+            };
             let (mut sections, mut extra) = match &spread {
                 Some(o) => {
                     eprintln!(
@@ -195,6 +207,14 @@ fn run(cli: Cli) -> Result<()> {
                     trade_missing = Some(n);
                 }
             }
+            sections.extend(sim_sections);
+            extra.extend(sim_files);
+            if let Some(n) = &sim_missing {
+                sections.push(portwright::export::html::Section {
+                    heading: "Simulation".to_string(),
+                    blocks: vec![portwright::export::html::Block::Paragraph(n.line())],
+                });
+            }
             eprintln!("building tables, meshes, template, plots and the report");
             let mut bundle = portwright::export::bundle::bundle_with(
                 &design,
@@ -224,6 +244,7 @@ fn run(cli: Cli) -> Result<()> {
             }
             bundle.not_written.extend(spread_missing);
             bundle.not_written.extend(trade_missing);
+            bundle.not_written.extend(sim_missing);
             for n in &bundle.not_written {
                 println!("{}", n.line());
             }
@@ -271,6 +292,27 @@ fn run(cli: Cli) -> Result<()> {
                 for f in &outcome.files()? {
                     let path = dir.join(&f.name);
                     write_atomic(&path, &f.bytes, &inputs, false)?;
+                    eprintln!("wrote {}", path.display());
+                }
+            }
+            Ok(())
+        }
+        Command::Simulate {
+            layout,
+            case,
+            out,
+            json,
+            runs,
+            seed,
+        } => {
+            let cases = cli::simulate::run(&layout, case.as_deref(), runs as usize, seed)?;
+            print!("{}", cli::simulate::render(&cases, json)?);
+            if let Some(dir) = out {
+                let (files, _) = cli::simulate::files(&cases)?;
+                for f in &files {
+                    let path = dir.join(&f.name);
+                    check_distinct(&[("--out", &path)], &[&layout])?;
+                    write_atomic(&path, &f.bytes, &[&layout], false)?;
                     eprintln!("wrote {}", path.display());
                 }
             }

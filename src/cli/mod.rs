@@ -3,6 +3,7 @@
 pub mod allocate;
 pub mod optimize;
 pub mod output;
+pub mod simulate;
 pub mod table;
 pub mod template;
 pub mod tolerance;
@@ -203,6 +204,27 @@ pub enum Command {
         /// Also write the report (text and JSON) and its plots into this folder.
         #[arg(long)]
         out: Option<PathBuf>,
+    },
+    /// Fly the layout's [[case]] sections in closed loop: rigid body, valves, tank in time and the firmware's tables.
+    #[command(after_help = AFTER_HELP)]
+    Simulate {
+        /// Layout file (TOML) with [[case]] sections.
+        layout: PathBuf,
+        /// Only this case (by name).
+        #[arg(long)]
+        case: Option<String>,
+        /// Write the time series (CSV), summary (JSON), report (text) and plots (SVG) into this folder.
+        #[arg(long)]
+        out: Option<PathBuf>,
+        /// Print JSON instead of text.
+        #[arg(long)]
+        json: bool,
+        /// Monte Carlo runs over the case's [case.spread] (0: the nominal run only; at most 1 000 000).
+        #[arg(long, default_value_t = 0, value_parser = clap::value_parser!(u64).range(0..=1_000_000))]
+        runs: u64,
+        /// Random seed of the Monte Carlo runs: the same seed gives the same numbers on any number of threads.
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
     },
 }
 

@@ -2021,3 +2021,51 @@ mod tests {
         ));
     }
 }
+
+/// One line of [`time_series_svg`].
+#[derive(Debug, Clone, PartialEq)]
+pub struct SeriesLine {
+    /// Legend text.
+    pub name: String,
+    /// (x, y) points.
+    pub points: Vec<(f64, f64)>,
+    /// Drawn dashed.
+    pub dashed: bool,
+}
+
+/// Up to six lines against time (the simulation's outputs), coloured in order.
+pub fn time_series_svg(
+    s: &PlotSettings,
+    title: &str,
+    x_desc: &str,
+    y_desc: &str,
+    lines: &[SeriesLine],
+) -> Result<Plot, PlotError> {
+    const WHAT: &str = "time series";
+    if lines.is_empty() || lines.len() > SERIES.len() {
+        return Err(PlotError::Shape {
+            what: WHAT,
+            reason: "a time-series plot holds one to six lines",
+        });
+    }
+    for l in lines {
+        if l.points.len() < 2 {
+            return Err(PlotError::Shape {
+                what: WHAT,
+                reason: "a line needs at least 2 points",
+            });
+        }
+        check_points(WHAT, &l.points)?;
+    }
+    let curves: Vec<Curve<'_>> = lines
+        .iter()
+        .enumerate()
+        .map(|(i, l)| Curve {
+            name: &l.name,
+            points: l.points.clone(),
+            colour: SERIES[i],
+            dashed: l.dashed,
+        })
+        .collect();
+    line_chart(s, title, x_desc, y_desc, &curves, false)
+}

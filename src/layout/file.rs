@@ -52,6 +52,9 @@ pub struct LayoutFile {
     /// The trade study's parts file and part stations: read by `layout::parts`, kept raw here.
     #[serde(default)]
     pub parts: Option<toml::Value>,
+    /// Simulation cases: read by `layout::cases`, kept raw here.
+    #[serde(default)]
+    pub case: Option<toml::Value>,
 }
 
 /// `[airframe]`.

@@ -7,6 +7,7 @@
 //! the file, so tests never touch the disk.
 
 pub mod asbuilt;
+pub mod cases;
 pub mod convert;
 pub mod file;
 pub mod locate;
@@ -169,6 +170,18 @@ pub fn asbuilt_sections(
     design: &Design,
 ) -> Result<asbuilt::AsBuiltSections, LayoutError> {
     asbuilt::read(text, design).map_err(|problems| LayoutError::Invalid {
+        source_name: source_name.to_string(),
+        problems,
+    })
+}
+
+/// The `[[case]]` sections of `text` (simulation cases), checked against `design`.
+pub fn case_sections(
+    text: &str,
+    source_name: &str,
+    design: &Design,
+) -> Result<Vec<crate::sim::case::Case>, LayoutError> {
+    cases::read(text, design).map_err(|problems| LayoutError::Invalid {
         source_name: source_name.to_string(),
         problems,
     })

@@ -1,0 +1,150 @@
+//! Thrust and flow of each port as the tank blows down and valves open together.
+//!
+//! Built once per run from the project's own flow models (`analysis::feed`):
+//! each port alone is solved at a grid of manifold pressures from ambient to the
+//! regulator's set pressure, and the supply droop with k valves open is the
+//! manifold pressure ratio of the equal-ports table of the port with the largest
+//! flow (the same droop the firmware tables use). In the loop, a port's thrust
+//! and flow are interpolated at the manifold pressure
+//!
+//! p_manifold = r_k · min(p_set, p_tank − dropout margin),
+//!
+//! so after the regulator drops out (tank pressure below set pressure plus its
+//! margin) the thrust falls with the tank pressure. Gas reaches the valves at the
+//! tank temperature: for choked flow the thrust does not depend on it and the mass
+//! flow goes as 1/√T, so flows are scaled by √(T_fill/T_tank).
+
+use crate::analysis::feed::{port_chains, shared_supply, ALLOWED_DROOP};
+use crate::gas::chain::FlowContext;
+use crate::gas::{eos, FlowError, FlowTolerances};
+use crate::model::Design;
+
+/// Points of the per-port pressure grid.
+pub const PRESSURE_POINTS: usize = 33;
+
+/// Per-port thrust and flow against manifold pressure, and the droop with k open.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FeedMap {
+    /// Grid of manifold pressures, Pa absolute, ascending.
+    pressures_pa: Vec<f64>,
+    /// thrust[port][grid], N.
+    thrust_n: Vec<Vec<f64>>,
+    /// flow[port][grid], kg/s.
+    flow_kg_s: Vec<Vec<f64>>,
+    /// Manifold pressure with k valves open over that with one, k = 1..=n (index k−1).
+    droop_ratio: Vec<f64>,
+    /// Regulator set pressure, Pa absolute.
+    pub set_pressure_pa: f64,
+    /// Tank pressure below which the regulator cannot hold its set pressure, Pa absolute.
+    pub dropout_pressure_pa: f64,
+    /// Regulator dropout margin, Pa.
+    pub dropout_margin_pa: f64,
+    /// Ambient pressure at the nozzle exits, Pa absolute.
+    pub ambient_pa: f64,
+    /// Temperature the flows were solved at, K.
+    pub reference_temperature_k: f64,
+}
+
+impl FeedMap {
+    /// Solve the map for a design at an ambient pressure.
+    pub fn new(design: &Design, ambient_pa: f64) -> Result<Self, FlowError> {
+        let gas = design.feed.gas;
+        let density = move |p: f64, t: f64| {
+            eos::density(gas, p, t).map_err(|e| FlowError::Density {
+                pressure_pa: p,
+                temperature_k: t,
+                reason: e.to_string(),
+            })
+        };
+        let ctx = FlowContext {
+            gas: gas.ideal(),
+            density: &density,
+            ambient_pa,
+            tolerances: FlowTolerances::default(),
+        };
+        let chains = port_chains(design)?;
+        let supply = shared_supply(design, ambient_pa)?;
+        let t = supply.temperature_k();
+        let set = supply.set_pressure_pa();
+        let pressures_pa: Vec<f64> = (0..PRESSURE_POINTS)
+            .map(|i| ambient_pa + (set - ambient_pa) * i as f64 / (PRESSURE_POINTS - 1) as f64)
+            .collect();
+        let mut thrust_n = Vec::with_capacity(chains.len());
+        let mut flow_kg_s = Vec::with_capacity(chains.len());
+        for c in &chains {
+            let mut th = Vec::with_capacity(PRESSURE_POINTS);
+            let mut fl = Vec::with_capacity(PRESSURE_POINTS);
+            for &p in &pressures_pa {
+                let s = c.solve(p, t, &ctx)?;
+                th.push(s.thrust_n.max(0.0));
+                fl.push(s.mass_flow_kg_s.max(0.0));
+            }
+            thrust_n.push(th);
+            flow_kg_s.push(fl);
+        }
+        let single: Vec<f64> = flow_kg_s.iter().map(|f| f[PRESSURE_POINTS - 1]).collect();
+        let big = crate::analysis::feed::droop_port(&single);
+        let droop_ratio = if chains.is_empty() {
+            Vec::new()
+        } else {
+            let firing = supply.equal_ports(&chains[big], chains.len(), ALLOWED_DROOP, &ctx)?;
+            let p1 = firing.rows[0].manifold_pressure_pa;
+            firing
+                .rows
+                .iter()
+                .map(|r| (r.manifold_pressure_pa - ambient_pa) / (p1 - ambient_pa).max(1e-9))
+                .collect()
+        };
+        let reg = &design.feed.regulator;
+        Ok(FeedMap {
+            pressures_pa,
+            thrust_n,
+            flow_kg_s,
+            droop_ratio,
+            set_pressure_pa: set,
+            dropout_pressure_pa: set + reg.dropout_margin_pa,
+            dropout_margin_pa: reg.dropout_margin_pa,
+            ambient_pa,
+            reference_temperature_k: t,
+        })
+    }
+
+    /// Number of ports.
+    pub fn ports(&self) -> usize {
+        self.thrust_n.len()
+    }
+
+    /// Pressure the regulator delivers from a tank at `tank_pa` with one valve open, Pa absolute.
+    pub fn regulator_outlet_pa(&self, tank_pa: f64) -> f64 {
+        self.set_pressure_pa
+            .min(tank_pa - self.dropout_margin_pa)
+            .max(self.ambient_pa)
+    }
+
+    /// Thrust (N) and flow (kg/s) of `port` fully open with `open` valves open in
+    /// all, from a tank at `tank_pa` and `tank_k`.
+    pub fn port_at(&self, port: usize, open: usize, tank_pa: f64, tank_k: f64) -> (f64, f64) {
+        let outlet = self.regulator_outlet_pa(tank_pa);
+        let r = if open == 0 {
+            1.0
+        } else {
+            self.droop_ratio.get(open - 1).copied().unwrap_or(1.0)
+        };
+        let p = self.ambient_pa + (outlet - self.ambient_pa) * r;
+        let g = &self.pressures_pa;
+        let span = g[g.len() - 1] - g[0];
+        let x = if span > 0.0 {
+            ((p - g[0]) / span * (g.len() - 1) as f64).clamp(0.0, (g.len() - 1) as f64)
+        } else {
+            (g.len() - 1) as f64
+        };
+        let i = (x.floor() as usize).min(g.len() - 2);
+        let f = x - i as f64;
+        let lerp = |v: &[f64]| v[i] + (v[i + 1] - v[i]) * f;
+        let temp_scale = (self.reference_temperature_k / tank_k.max(1.0)).sqrt();
+        (
+            lerp(&self.thrust_n[port]),
+            lerp(&self.flow_kg_s[port]) * temp_scale,
+        )
+    }
+}

@@ -91,7 +91,7 @@ fn trade_writes_its_report_and_plots() {
         );
     }
     let svg = std::fs::read_to_string(dir.path().join("trade-pareto.svg")).unwrap();
-    assert!(svg.contains("Pareto set") && svg.contains("margin 1"));
+    assert!(svg.contains("Pareto set") && svg.contains("lightest meeting all"));
 }
 
 #[test]

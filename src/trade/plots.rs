@@ -76,14 +76,11 @@ pub fn pareto_svg(
     }];
     if !front.is_empty() {
         markers.push(MarkerSet {
-            name: format!(
-                "Pareto set, cheapest{}",
-                if p1 > p0 {
-                    format!(" {p0:.0}{cur}")
-                } else {
-                    String::new()
-                }
-            ),
+            name: if p1 > p0 {
+                format!("Pareto, from {p0:.0}{cur}")
+            } else {
+                "Pareto set".to_string()
+            },
             points: front.iter().map(|p| (p.0, p.1)).collect(),
             colours: front.iter().map(|p| price_colour(t(p.2))).collect(),
             radius: 5,
@@ -117,7 +114,8 @@ pub fn pareto_svg(
         y_desc: "worst margin (available / required torque)".to_string(),
         markers,
         lines: Vec::new(),
-        horizontal: vec![(1.0, "margin 1".to_string())],
+        // Unlabelled: the legend row is full, and the axis reads 1 at the line.
+        horizontal: vec![(1.0, String::new())],
         vertical: Vec::new(),
     };
     Some(marker_chart_svg(&chart, s))

@@ -551,3 +551,40 @@ fn a_catalogue_too_large_to_number_is_refused() {
     let e = parts_error(&parts);
     assert!(e.contains("combinations; at most 1000000000000000"), "{e}");
 }
+
+// ---------------------------------------------------------------- the hold-time slot
+
+/// A stand-in for the closed-loop simulation: hold time proportional to the
+/// usable gas (a made-up rule, only to exercise the slot).
+struct GasHold;
+
+impl evaluate::HoldTime for GasHold {
+    fn hold_time_s(&self, _: &Design, a: &crate::analysis::Analysis) -> Option<f64> {
+        Some(a.gas.usable_adiabatic_kg * 400.0)
+    }
+}
+
+#[test]
+fn a_hold_time_source_takes_part_in_requirements_and_ranking() {
+    let (d, c) = demo(HERON);
+    let c = small(&c, &[1], &[0], &[1], &[0, 1], &[&[1], &[0]]);
+    let plain = study::run(&d, &c, &StudySettings::default(), None);
+    assert!(!plain.with_hold_time);
+    let m = plain.evaluated[0].metrics().unwrap();
+    assert_eq!(m.hold_time_s, None);
+    assert_eq!(
+        m.hold_time_note.as_deref(),
+        Some(evaluate::HOLD_TIME_NOT_COMPUTED)
+    );
+    let held = study::run(&d, &c, &StudySettings::default(), Some(&GasHold));
+    assert!(held.with_hold_time);
+    // TK-13 holds 31 g usable (adiabatic): 12.4 s against the layout's 10 s; both tanks meet it.
+    for e in &held.evaluated {
+        let m = e.metrics().unwrap();
+        let h = m.hold_time_s.unwrap();
+        assert!(h > 10.0 && m.hold_time_note.is_none(), "{h}");
+    }
+    // The larger tank holds longer but weighs more: both are in the Pareto set
+    // with hold time counted.
+    assert_eq!(held.pareto.len(), 2);
+}

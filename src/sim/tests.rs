@@ -197,3 +197,36 @@ fn limit_cycle_with_steady_disturbance_matches_the_textbook() {
     eprintln!("flow {flow} vs {expected_flow} ({pulses} pulse pairs)");
     assert!((flow / expected_flow - 1.0).abs() < 0.05);
 }
+
+/// Steps end at every switching instant, so halving the longest step changes
+/// the figures only by the integrator's own error (RK4, fourth order) and the
+/// tank's update instants: gas used to 1e-4, the limit cycle to 1e-3.
+#[test]
+fn halving_the_step_changes_little() {
+    let text = include_str!("../../layouts/heron-54.toml");
+    let (design, analysis, cases) = demo(text, "heron-54.toml");
+    let mut case = cases[0].clone();
+    case.duration_s = 10.0;
+    let coarse = simulate(&design, &analysis, &case, &Settings::default()).unwrap();
+    let fine = simulate(
+        &design,
+        &analysis,
+        &case,
+        &Settings {
+            max_step_s: 5e-4,
+            ..Settings::default()
+        },
+    )
+    .unwrap();
+    let rel = |a: f64, b: f64| (a - b).abs() / b.abs().max(1e-12);
+    eprintln!("gas {} vs {}", coarse.gas_used_kg, fine.gas_used_kg);
+    assert!(rel(coarse.gas_used_kg, fine.gas_used_kg) < 1e-4);
+    for k in 0..3 {
+        let (a, b) = (
+            coarse.axes[k].limit_cycle_amplitude_rad.unwrap(),
+            fine.axes[k].limit_cycle_amplitude_rad.unwrap(),
+        );
+        eprintln!("axis {k}: {a} vs {b}");
+        assert!(rel(a, b) < 1e-3);
+    }
+}

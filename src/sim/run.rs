@@ -628,6 +628,7 @@ pub fn run(plant: &Plant, draw: &Draw, settings: &Settings) -> RunResult {
             && (pending_dm >= settings.tank_update_mass_fraction * tank.contents().mass_kg
                 || t - last_tank_t >= settings.tank_update_s)
             || (t - last_tank_t >= 10.0 * settings.tank_update_s)
+            || (t < burn_time + settings.tank_update_s && t - last_tank_t >= settings.tank_update_s)
         {
             match tank.advance(pending_dm, t - last_tank_t) {
                 Ok(_) => {}

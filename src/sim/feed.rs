@@ -7,7 +7,11 @@
 //! flow (the same droop the firmware tables use). In the loop, a port's thrust
 //! and flow are interpolated at the manifold pressure
 //!
-//! p_manifold = r_k · min(p_set, p_tank − dropout margin),
+//! p_manifold − p_ambient = r_k · (min(p_set, p_tank − dropout margin) − p_ambient),
+//!
+//! with r_k the manifold pressure above ambient over the set pressure above
+//! ambient: for the port alone as solved by the shared-supply model, and with k
+//! open scaled by the droop port's ratio of k open to one open,
 //!
 //! so after the regulator drops out (tank pressure below set pressure plus its
 //! margin) the thrust falls with the tank pressure. Gas reaches the valves at the
@@ -31,8 +35,12 @@ pub struct FeedMap {
     thrust_n: Vec<Vec<f64>>,
     /// flow[port][grid], kg/s.
     flow_kg_s: Vec<Vec<f64>>,
-    /// Manifold pressure with k valves open over that with one, k = 1..=n (index k−1).
+    /// Manifold pressure above ambient with k valves open over the regulator's set
+    /// pressure above ambient, k = 1..=n (index k−1): the loss in the regulator and
+    /// line at that flow.
     droop_ratio: Vec<f64>,
+    /// Each port alone: manifold pressure above ambient over the set pressure above ambient.
+    single_ratio: Vec<f64>,
     /// Regulator set pressure, Pa absolute.
     pub set_pressure_pa: f64,
     /// Tank pressure below which the regulator cannot hold its set pressure, Pa absolute.
@@ -88,19 +96,26 @@ impl FeedMap {
             Vec::new()
         } else {
             let firing = supply.equal_ports(&chains[big], chains.len(), ALLOWED_DROOP, &ctx)?;
-            let p1 = firing.rows[0].manifold_pressure_pa;
             firing
                 .rows
                 .iter()
-                .map(|r| (r.manifold_pressure_pa - ambient_pa) / (p1 - ambient_pa).max(1e-9))
+                .map(|r| (r.manifold_pressure_pa - ambient_pa) / (set - ambient_pa).max(1e-9))
                 .collect()
         };
+        // Each port alone: its own manifold pressure (a small port draws less
+        // through the regulator and line than a large one).
+        let mut single_ratio = Vec::with_capacity(chains.len());
+        for c in &chains {
+            let m = supply.solve(std::slice::from_ref(c), &ctx)?;
+            single_ratio.push((m.manifold_pressure_pa - ambient_pa) / (set - ambient_pa).max(1e-9));
+        }
         let reg = &design.feed.regulator;
         Ok(FeedMap {
             pressures_pa,
             thrust_n,
             flow_kg_s,
             droop_ratio,
+            single_ratio,
             set_pressure_pa: set,
             dropout_pressure_pa: set + reg.dropout_margin_pa,
             dropout_margin_pa: reg.dropout_margin_pa,
@@ -125,10 +140,14 @@ impl FeedMap {
     /// all, from a tank at `tank_pa` and `tank_k`.
     pub fn port_at(&self, port: usize, open: usize, tank_pa: f64, tank_k: f64) -> (f64, f64) {
         let outlet = self.regulator_outlet_pa(tank_pa);
-        let r = if open == 0 {
-            1.0
-        } else {
-            self.droop_ratio.get(open - 1).copied().unwrap_or(1.0)
+        // Port alone as solved; with k open, scaled by the droop port's ratio of
+        // k open to one open.
+        let one = self.single_ratio[port];
+        let r = match (open, self.droop_ratio.first()) {
+            (0 | 1, _) | (_, None) => one,
+            (k, Some(&r1)) => {
+                one * self.droop_ratio.get(k - 1).copied().unwrap_or(r1) / r1.max(1e-12)
+            }
         };
         let p = self.ambient_pa + (outlet - self.ambient_pa) * r;
         let g = &self.pressures_pa;
@@ -146,5 +165,60 @@ impl FeedMap {
             lerp(&self.thrust_n[port]),
             lerp(&self.flow_kg_s[port]) * temp_scale,
         )
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn heron() -> (Design, crate::analysis::Analysis) {
+        let d =
+            crate::layout::parse_str(include_str!("../../layouts/heron-54.toml"), "heron").unwrap();
+        let a = crate::analysis::analyze(&d).unwrap();
+        (d, a)
+    }
+
+    /// Regulated, one valve open: the map gives the analysis's own per-port thrust
+    /// and flow (the same chain solved at the same manifold pressure), and with k
+    /// open the droop table's per-port thrust.
+    #[test]
+    fn regulated_thrust_is_the_analysis_operating_point() {
+        let (d, a) = heron();
+        let st = &a.states[0];
+        let map = FeedMap::new(&d, st.ambient_pressure_pa).unwrap();
+        let full_tank = 200e5;
+        for (i, p) in st.ports.iter().enumerate() {
+            let (f, m) = map.port_at(i, 1, full_tank, map.reference_temperature_k);
+            assert!(
+                (f - p.thrust_n).abs() < 1e-6 * p.thrust_n,
+                "{} {f} vs {}",
+                p.name,
+                p.thrust_n
+            );
+            assert!((m - p.mass_flow_kg_s).abs() < 1e-3 * p.mass_flow_kg_s);
+        }
+        let big = st.droop.last().unwrap();
+        let (f, _) = map.port_at(0, big.open_ports, full_tank, map.reference_temperature_k);
+        // Linear interpolation between grid points of a near-linear curve: 1e-3.
+        assert!((f - big.thrust_per_port_n).abs() < 1e-3 * big.thrust_per_port_n);
+    }
+
+    /// After dropout the thrust follows the tank pressure down, and no pressure
+    /// above ambient means no thrust.
+    #[test]
+    fn thrust_falls_with_the_tank_after_dropout() {
+        let (d, a) = heron();
+        let st = &a.states[0];
+        let map = FeedMap::new(&d, st.ambient_pressure_pa).unwrap();
+        let t = map.reference_temperature_k;
+        let at_dropout = map.port_at(0, 1, map.dropout_pressure_pa, t).0;
+        let below = map.port_at(0, 1, map.dropout_pressure_pa - 3e5, t).0;
+        let empty = map
+            .port_at(0, 1, map.ambient_pa + map.dropout_margin_pa, t)
+            .0;
+        assert!((at_dropout - st.ports[0].thrust_n).abs() < 1e-6 * at_dropout);
+        assert!(below < at_dropout && below > 0.0);
+        assert!(empty.abs() < 1e-9);
     }
 }

@@ -453,6 +453,10 @@ pub enum Command {
     },
     /// PID: torque command and duties.
     Duty {
+        /// Sensed attitude error, rad.
+        error_rad: [f64; 3],
+        /// Sensed rate, rad/s.
+        rate_rad_s: [f64; 3],
         /// Torque command, N·m.
         torque_n_m: [f64; 3],
         /// Duty per port.
@@ -624,6 +628,7 @@ pub fn run(plant: &Plant, draw: &Draw, settings: &Settings) -> RunResult {
             && (pending_dm >= settings.tank_update_mass_fraction * tank.contents().mass_kg
                 || t - last_tank_t >= settings.tank_update_s)
             || (t - last_tank_t >= 10.0 * settings.tank_update_s)
+            || (t < burn_time + settings.tank_update_s && t - last_tank_t >= settings.tank_update_s)
         {
             match tank.advance(pending_dm, t - last_tank_t) {
                 Ok(_) => {}
@@ -739,6 +744,8 @@ pub fn run(plant: &Plant, draw: &Draw, settings: &Settings) -> RunResult {
                     }
                     if keep_commands {
                         commands.push(Command::Duty {
+                            error_rad: est.into(),
+                            rate_rad_s: sensed.into(),
                             torque_n_m: tau.into(),
                             duty: alloc.duty.clone(),
                         });

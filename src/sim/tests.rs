@@ -197,3 +197,101 @@ fn limit_cycle_with_steady_disturbance_matches_the_textbook() {
     eprintln!("flow {flow} vs {expected_flow} ({pulses} pulse pairs)");
     assert!((flow / expected_flow - 1.0).abs() < 0.05);
 }
+
+/// Steps end at every switching instant, so halving the longest step changes
+/// the figures only by the integrator's own error (RK4, fourth order) and the
+/// tank's update instants: gas used to 1e-4, the limit cycle to 1e-3.
+#[test]
+fn halving_the_step_changes_little() {
+    let text = include_str!("../../layouts/heron-54.toml");
+    let (design, analysis, cases) = demo(text, "heron-54.toml");
+    let mut case = cases[0].clone();
+    case.duration_s = 10.0;
+    let coarse = simulate(&design, &analysis, &case, &Settings::default()).unwrap();
+    let fine = simulate(
+        &design,
+        &analysis,
+        &case,
+        &Settings {
+            max_step_s: 5e-4,
+            ..Settings::default()
+        },
+    )
+    .unwrap();
+    let rel = |a: f64, b: f64| (a - b).abs() / b.abs().max(1e-12);
+    eprintln!("gas {} vs {}", coarse.gas_used_kg, fine.gas_used_kg);
+    assert!(rel(coarse.gas_used_kg, fine.gas_used_kg) < 1e-4);
+    for k in 0..3 {
+        let (a, b) = (
+            coarse.axes[k].limit_cycle_amplitude_rad.unwrap(),
+            fine.axes[k].limit_cycle_amplitude_rad.unwrap(),
+        );
+        eprintln!("axis {k}: {a} vs {b}");
+        assert!(rel(a, b) < 1e-3);
+    }
+}
+
+/// Burn phase without firing (a deadband no error reaches): the motor's
+/// misalignment torque F·sin δ·(nozzle station − CG station) about pitch spins
+/// the vehicle up; the pitch rate at burnout is ∫τ/I dt, integrated here apart
+/// by the trapezoidal rule over 400 points of the mass model (propellant burning
+/// at an even rate), within 1 %.
+#[test]
+fn burn_phase_misalignment_torque() {
+    use super::case::*;
+    let text = include_str!("../../layouts/heron-54.toml");
+    let (design, analysis, cases) = demo(text, "heron-54.toml");
+    let burn = 1.5;
+    let mut case = cases[0].clone();
+    case.state = "liftoff".into();
+    case.phase = Phase::Burn { burn_time_s: burn };
+    case.duration_s = burn;
+    case.start_error_rad = [0.0; 3];
+    case.start_rate_rad_s = [0.0; 3];
+    case.disturbances.clear();
+    case.sensing.gyro_noise_rad_s = 0.0;
+    case.sensing.gyro_bias_rad_s = [0.0; 3];
+    case.controller = Controller::OnOff {
+        deadband_rad: 3.0,
+        hysteresis_rad: 0.0,
+        rate_weight_s: 0.0,
+    };
+    let r = simulate(&design, &analysis, &case, &Settings::default()).unwrap();
+    assert_eq!(r.gas_used_kg, 0.0);
+    let s = r.series.as_ref().unwrap();
+    let w_end = s.rate_rad_s.last().unwrap()[1];
+    let state = design.states.iter().find(|s| s.name == "liftoff").unwrap();
+    let gb = &analysis.gas;
+    let gas = gb.inventory_kg - (1.0 - state.gas_remaining) * gb.usable_isothermal_kg;
+    let burnt = crate::model::FlightState {
+        motor: crate::model::MotorCondition::Burnout,
+        ..state.clone()
+    };
+    let full = crate::mass::vehicle::vehicle_properties(&design, state, gas);
+    let empty = crate::mass::vehicle::vehicle_properties(&design, &burnt, gas);
+    let aft = design.motor.fore_station_m + design.motor.length_m;
+    let f = design.requirements.motor_thrust_n * design.requirements.thrust_misalignment_rad.sin();
+    let n = 400;
+    let mut integral = 0.0;
+    let mut prev = None;
+    for i in 0..=n {
+        let left = 1.0 - i as f64 / n as f64;
+        // Mass properties are linear in the propellant left (the propellant scales).
+        let m = empty.mass_kg() + left * (full.mass_kg() - empty.mass_kg());
+        let first = empty.cg() * empty.mass_kg()
+            + (full.cg() * full.mass_kg() - empty.cg() * empty.mass_kg()) * left;
+        let cg_station = -(first / m).x;
+        let io = empty.inertia_about_origin()
+            + (full.inertia_about_origin() - empty.inertia_about_origin()) * left;
+        let c = first / m;
+        let iyy = io[(1, 1)] - m * (c.x * c.x + c.z * c.z);
+        let v = f * (aft - cg_station) / iyy;
+        if let Some(p) = prev {
+            integral += 0.5 * (p + v) * burn / n as f64;
+        }
+        prev = Some(v);
+    }
+    eprintln!("pitch rate {w_end} vs {integral}");
+    assert!(integral > 0.0);
+    assert!((w_end / integral - 1.0).abs() < 0.01);
+}

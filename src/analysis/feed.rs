@@ -193,7 +193,26 @@ pub fn port_chains(design: &Design) -> Result<Vec<PortChain>, FlowError> {
 /// The regulator and its line as a shared supply at a given ambient pressure.
 pub fn shared_supply(design: &Design, ambient_pa: f64) -> Result<SharedSupply, FlowError> {
     let reg = &design.feed.regulator;
-    let capacity = match reg.supply {
+    let single = SharedSupply::new(
+        reg.set_pressure_gauge_pa + ambient_pa,
+        design.feed.tank.fill_temperature_k,
+        capacity_of(&reg.supply)?,
+    )?;
+    match &design.feed.first_stage {
+        None => Ok(single),
+        Some(first) => single.with_first_stage(
+            crate::gas::chain::FirstStage {
+                set_pressure_pa: first.set_pressure_gauge_pa + ambient_pa,
+                dropout_margin_pa: first.dropout_margin_pa,
+                capacity: capacity_of(&first.supply)?,
+            },
+            reg.dropout_margin_pa,
+        ),
+    }
+}
+
+fn capacity_of(supply: &crate::model::SupplyCapacity) -> Result<SupplyCapacity, FlowError> {
+    Ok(match *supply {
         crate::model::SupplyCapacity::Unlimited => SupplyCapacity::Unlimited,
         crate::model::SupplyCapacity::Cv { cv, xt } => {
             SupplyCapacity::Restriction(CvValve::new(cv, xt)?)
@@ -205,12 +224,23 @@ pub fn shared_supply(design: &Design, ambient_pa: f64) -> Result<SharedSupply, F
             droop_pa,
             reference_flow_kg_s: at_flow_kg_s,
         },
-    };
-    SharedSupply::new(
-        reg.set_pressure_gauge_pa + ambient_pa,
-        design.feed.tank.fill_temperature_k,
-        capacity,
-    )
+    })
+}
+
+/// Tank pressure at which the regulator chain stops holding the working pressure, Pa absolute,
+/// at a local ambient: the working set pressure plus its dropout margin, plus the first stage's
+/// margin when there is one (see [`crate::gas::chain::chain_dropout_tank_pressure_pa`]).
+pub fn dropout_tank_pressure_pa(design: &Design, ambient_pa: f64) -> f64 {
+    let feed = &design.feed;
+    let mut stages = Vec::with_capacity(2);
+    if let Some(f) = &feed.first_stage {
+        stages.push((f.set_pressure_gauge_pa + ambient_pa, f.dropout_margin_pa));
+    }
+    stages.push((
+        feed.regulator.set_pressure_gauge_pa + ambient_pa,
+        feed.regulator.dropout_margin_pa,
+    ));
+    crate::gas::chain::chain_dropout_tank_pressure_pa(&stages).unwrap_or(ambient_pa)
 }
 
 /// Real-gas density for the flow models.
@@ -368,10 +398,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         }
     };
     // The regulator needs set + dropout at its inlet; the set pressure is above local ambient.
-    let end = tank::end_pressure_pa(
-        feed.regulator.set_pressure_gauge_pa + ambient,
-        feed.regulator.dropout_margin_pa,
-    );
+    let end = dropout_tank_pressure_pa(design, ambient);
     let usable = tank::usable_gas(&fill, end).map_err(gas_error)?;
     let inv = &usable.fill;
     let mut warnings = Vec::new();
@@ -525,6 +552,16 @@ pub fn assumptions(design: &Design, budget: &GasBudget) -> Vec<String> {
         "valve per IEC 60534-2-1 gas sizing equations (or an orifice); nozzle flow is ideal-gas isentropic with the gas's ratio of specific heats".to_string(),
         "minimum impulse bit: thrust × (opening delay + closing delay) / 2 (linear ramps)".to_string(),
     ];
+    if let Some(f) = &design.feed.first_stage {
+        a.push(format!(
+            "two-stage regulation: a first stage holds {:.1} barg ({:.0} psig) ahead of the regulator; the chain stops regulating at a tank pressure of {:.2} bara ({:.0} psia), the regulator's set pressure plus its dropout margin plus the first stage's dropout margin of {:.1} bar; the manifold flow is limited by both stages (a wide-open second stage needs its dropout margin across it)",
+            f.set_pressure_gauge_pa / 1e5,
+            f.set_pressure_gauge_pa / 6_894.757,
+            budget.end_pressure_pa / 1e5,
+            budget.end_pressure_pa / 6_894.757,
+            f.dropout_margin_pa / 1e5
+        ));
+    }
     if matches!(
         design.feed.regulator.supply,
         crate::model::SupplyCapacity::Unlimited

@@ -137,7 +137,7 @@ pub fn render_text(a: &Analysis) -> String {
     t.add_row(vec![
         Cell::new("inventory"),
         Cell::new(format!(
-            "{:.1} g (± {:.1} g)",
+            "{:.1} g (± {:.2} g)",
             g.inventory_kg * 1e3,
             g.inventory_uncertainty_kg * 1e3
         )),
@@ -149,7 +149,7 @@ pub fn render_text(a: &Analysis) -> String {
     t.add_row(vec![
         Cell::new("usable, isothermal blowdown"),
         Cell::new(format!(
-            "{:.1} g (± {:.1} %)",
+            "{:.1} g (± {:.2} %)",
             g.usable_isothermal_kg * 1e3,
             g.uncertainty_fraction * 100.0
         )),
@@ -157,9 +157,11 @@ pub fn render_text(a: &Analysis) -> String {
     t.add_row(vec![
         Cell::new("usable, adiabatic blowdown"),
         Cell::new(format!(
-            "{:.1} g (tank ends at {:.1} °C)",
+            "{:.1} g (± {:.2} %; tank ends at {:.1} °C ± {:.1} K)",
             g.usable_adiabatic_kg * 1e3,
-            g.adiabatic_end_temperature_k - 273.15
+            g.adiabatic_uncertainty_fraction * 100.0,
+            g.adiabatic_end_temperature_k - 273.15,
+            g.adiabatic_end_temperature_uncertainty_k
         )),
     ]);
     t.add_row(vec![

@@ -59,8 +59,18 @@ pub struct GasBudget {
     pub residual_kg: f64,
     /// Uncertainty of the inventory from the equation of state, kg (zero when filled by mass).
     pub inventory_uncertainty_kg: f64,
-    /// Relative uncertainty of the usable gas (isothermal bound) from the equation of state.
+    /// Relative uncertainty of the usable gas (isothermal bound) from the equation of state:
+    /// the largest deviation measured for this gas against a reference library.
     pub uncertainty_fraction: f64,
+    /// Relative uncertainty of the usable gas, adiabatic bound (measured, per gas).
+    pub adiabatic_uncertainty_fraction: f64,
+    /// Uncertainty of the adiabatic end temperature, K (measured, per gas).
+    pub adiabatic_end_temperature_uncertainty_k: f64,
+    /// The equation of state's measured uncertainty for this gas, per quantity.
+    pub model_uncertainty: crate::gas::eos::ModelUncertainty,
+    /// Where an adiabatic blowdown of a single-phase gas first meets the saturation line and
+    /// begins to condense (tank pressure Pa absolute, temperature K), if it does.
+    pub condensation: Option<crate::gas::tank::DomeEntry>,
     /// Total impulse of the usable gas, isothermal bound, N·s.
     pub total_impulse_isothermal_n_s: f64,
     /// Total impulse of the usable gas, adiabatic bound, N·s.
@@ -183,7 +193,26 @@ pub fn port_chains(design: &Design) -> Result<Vec<PortChain>, FlowError> {
 /// The regulator and its line as a shared supply at a given ambient pressure.
 pub fn shared_supply(design: &Design, ambient_pa: f64) -> Result<SharedSupply, FlowError> {
     let reg = &design.feed.regulator;
-    let capacity = match reg.supply {
+    let single = SharedSupply::new(
+        reg.set_pressure_gauge_pa + ambient_pa,
+        design.feed.tank.fill_temperature_k,
+        capacity_of(&reg.supply)?,
+    )?;
+    match &design.feed.first_stage {
+        None => Ok(single),
+        Some(first) => single.with_first_stage(
+            crate::gas::chain::FirstStage {
+                set_pressure_pa: first.set_pressure_gauge_pa + ambient_pa,
+                dropout_margin_pa: first.dropout_margin_pa,
+                capacity: capacity_of(&first.supply)?,
+            },
+            reg.dropout_margin_pa,
+        ),
+    }
+}
+
+fn capacity_of(supply: &crate::model::SupplyCapacity) -> Result<SupplyCapacity, FlowError> {
+    Ok(match *supply {
         crate::model::SupplyCapacity::Unlimited => SupplyCapacity::Unlimited,
         crate::model::SupplyCapacity::Cv { cv, xt } => {
             SupplyCapacity::Restriction(CvValve::new(cv, xt)?)
@@ -195,12 +224,23 @@ pub fn shared_supply(design: &Design, ambient_pa: f64) -> Result<SharedSupply, F
             droop_pa,
             reference_flow_kg_s: at_flow_kg_s,
         },
-    };
-    SharedSupply::new(
-        reg.set_pressure_gauge_pa + ambient_pa,
-        design.feed.tank.fill_temperature_k,
-        capacity,
-    )
+    })
+}
+
+/// Tank pressure at which the regulator chain stops holding the working pressure, Pa absolute,
+/// at a local ambient: the working set pressure plus its dropout margin, plus the first stage's
+/// margin when there is one (see [`crate::gas::chain::chain_dropout_tank_pressure_pa`]).
+pub fn dropout_tank_pressure_pa(design: &Design, ambient_pa: f64) -> f64 {
+    let feed = &design.feed;
+    let mut stages = Vec::with_capacity(2);
+    if let Some(f) = &feed.first_stage {
+        stages.push((f.set_pressure_gauge_pa + ambient_pa, f.dropout_margin_pa));
+    }
+    stages.push((
+        feed.regulator.set_pressure_gauge_pa + ambient_pa,
+        feed.regulator.dropout_margin_pa,
+    ));
+    crate::gas::chain::chain_dropout_tank_pressure_pa(&stages).unwrap_or(ambient_pa)
 }
 
 /// Real-gas density for the flow models.
@@ -212,6 +252,22 @@ fn real_density(gas: crate::gas::Gas) -> impl Fn(f64, f64) -> Result<f64, FlowEr
             reason: e.to_string(),
         })
     }
+}
+
+/// The γ and gas constant the isentropic nozzle and valve relations use: γ is the real gas's
+/// isentropic exponent κ = w²ρ/p (GERG-2008) at the regulated pressure and the fill
+/// temperature, where the gas enters the valves; the ideal-gas cp/cv when that state cannot be
+/// evaluated (the state errors are reported by the density evaluations themselves).
+pub fn flow_gas(design: &Design, ambient_pa: f64) -> crate::gas::IdealGas {
+    let gas = design.feed.gas;
+    let mut ideal = gas.ideal();
+    let p = design.feed.regulator.set_pressure_gauge_pa + ambient_pa;
+    if let Ok(s) = eos::state_tp(gas, p, design.feed.tank.fill_temperature_k) {
+        if s.isentropic_exponent.is_finite() && s.isentropic_exponent > 1.0 {
+            ideal.gamma = s.isentropic_exponent;
+        }
+    }
+    ideal
 }
 
 fn regime_words(r: NozzleRegime) -> &'static str {
@@ -232,7 +288,7 @@ pub fn ports_at(design: &Design, state: &str, ambient_pa: f64) -> Result<PortsAt
     let gas = design.feed.gas;
     let density = real_density(gas);
     let ctx = FlowContext {
-        gas: gas.ideal(),
+        gas: flow_gas(design, ambient_pa),
         density: &density,
         ambient_pa,
         tolerances: FlowTolerances::default(),
@@ -342,10 +398,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         }
     };
     // The regulator needs set + dropout at its inlet; the set pressure is above local ambient.
-    let end = tank::end_pressure_pa(
-        feed.regulator.set_pressure_gauge_pa + ambient,
-        feed.regulator.dropout_margin_pa,
-    );
+    let end = dropout_tank_pressure_pa(design, ambient);
     let usable = tank::usable_gas(&fill, end).map_err(gas_error)?;
     let inv = &usable.fill;
     let mut warnings = Vec::new();
@@ -380,6 +433,26 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
             TankOutlet::Fore => {}
         }
     }
+    if let Some(c) = usable.adiabatic.condensation {
+        warnings.push(format!(
+            "in an adiabatic blowdown the {} cools onto its saturation line and begins to condense at a tank pressure of {:.1} bara ({:.0} psia) and {:.1} K ({:.1} °C), after {:.1} g has left; below that the liquid stays in the tank and only vapour leaves",
+            feed.gas.name(),
+            c.pressure_pa / 1e5,
+            c.pressure_pa / 6_894.757,
+            c.temperature_k,
+            c.temperature_k - 273.15,
+            c.mass_expelled_kg * 1e3
+        ));
+    }
+    if let Ok(crate::gas::eos::Validity::Extended) =
+        crate::gas::eos::validity(feed.gas, inv.supply_pressure_pa, inv.temperature_k)
+    {
+        warnings.push(format!(
+            "the fill state ([tank] fill_pressure / temperature: {:.1} bara, {:.1} K) is outside the normal range of the GERG-2008 equation of state (90–450 K, up to 350 bar); its uncertainty there is larger than the figures stated",
+            inv.supply_pressure_pa / 1e5,
+            inv.temperature_k
+        ));
+    }
     if usable.adiabatic.dry_ice_warning {
         warnings.push("in an adiabatic blowdown the CO2 cools to its triple point (216.6 K): dry ice forms in the tank and the usable gas falls".to_string());
     }
@@ -410,11 +483,7 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
     let isp = thrust / (flow * STANDARD_GRAVITY_M_S2);
     let iso = usable.isothermal.usable_mass_kg;
     let adi = usable.adiabatic.usable_mass_kg;
-    let uncertainty = if iso > 0.0 {
-        usable.isothermal.usable_mass_uncertainty_kg / iso
-    } else {
-        0.0
-    };
+    let model_u = crate::gas::eos::model_uncertainty(feed.gas);
     Ok(GasBudget {
         gas: feed.gas.name(),
         tank_volume_m3: t.volume_m3,
@@ -430,7 +499,11 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
         adiabatic_end_temperature_k: usable.adiabatic.end_temperature_k,
         residual_kg: (inv.mass_kg - iso).max(0.0),
         inventory_uncertainty_kg: inv.mass_uncertainty_kg,
-        uncertainty_fraction: uncertainty,
+        uncertainty_fraction: model_u.usable_isothermal_fraction,
+        adiabatic_uncertainty_fraction: model_u.usable_adiabatic_fraction,
+        adiabatic_end_temperature_uncertainty_k: model_u.adiabatic_end_temperature_k,
+        model_uncertainty: model_u,
+        condensation: usable.adiabatic.condensation,
         total_impulse_isothermal_n_s: iso * isp * STANDARD_GRAVITY_M_S2,
         total_impulse_adiabatic_n_s: adi * isp * STANDARD_GRAVITY_M_S2,
         firing_time_all_ports_s: iso / at.all_open_flow_kg_s,
@@ -455,8 +528,23 @@ pub fn gas_budget(design: &Design) -> Result<GasBudget, AnalysisError> {
 pub fn assumptions(design: &Design, budget: &GasBudget) -> Vec<String> {
     let mut a = vec![
         format!(
-            "tank inventory from the Peng–Robinson equation of state with volume translation; expected uncertainty of the usable gas ±{:.1} %",
-            budget.uncertainty_fraction * 100.0
+            "tank inventory from the GERG-2008 equation of state; measured uncertainty for {} against a reference library: usable gas ±{:.2} % isothermal, ±{:.2} % adiabatic, adiabatic end temperature ±{:.1} K, gas density ±{:.2} %{}",
+            budget.gas,
+            budget.uncertainty_fraction * 100.0,
+            budget.adiabatic_uncertainty_fraction * 100.0,
+            budget.adiabatic_end_temperature_uncertainty_k,
+            budget.model_uncertainty.gas_density_fraction * 100.0,
+            match (
+                budget.model_uncertainty.liquid_density_fraction,
+                budget.model_uncertainty.vapour_pressure_fraction
+            ) {
+                (Some(l), Some(p)) => format!(
+                    ", saturated liquid density ±{:.2} %, vapour pressure ±{:.2} %",
+                    l * 100.0,
+                    p * 100.0
+                ),
+                _ => String::new(),
+            }
         ),
         "usable gas runs from fill to the tank pressure at which the regulator drops out (set pressure + dropout margin); isothermal and adiabatic blowdown bound it".to_string(),
         "the regulator holds its set pressure above local ambient (US Standard Atmosphere 1976 at each state's altitude)".to_string(),
@@ -464,6 +552,16 @@ pub fn assumptions(design: &Design, budget: &GasBudget) -> Vec<String> {
         "valve per IEC 60534-2-1 gas sizing equations (or an orifice); nozzle flow is ideal-gas isentropic with the gas's ratio of specific heats".to_string(),
         "minimum impulse bit: thrust × (opening delay + closing delay) / 2 (linear ramps)".to_string(),
     ];
+    if let Some(f) = &design.feed.first_stage {
+        a.push(format!(
+            "two-stage regulation: a first stage holds {:.1} barg ({:.0} psig) ahead of the regulator; the chain stops regulating at a tank pressure of {:.2} bara ({:.0} psia), the regulator's set pressure plus its dropout margin plus the first stage's dropout margin of {:.1} bar; the manifold flow is limited by both stages (a wide-open second stage needs its dropout margin across it)",
+            f.set_pressure_gauge_pa / 1e5,
+            f.set_pressure_gauge_pa / 6_894.757,
+            budget.end_pressure_pa / 1e5,
+            budget.end_pressure_pa / 6_894.757,
+            f.dropout_margin_pa / 1e5
+        ));
+    }
     if matches!(
         design.feed.regulator.supply,
         crate::model::SupplyCapacity::Unlimited

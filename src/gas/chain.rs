@@ -210,12 +210,37 @@ pub enum SupplyCapacity {
     },
 }
 
+/// A high-pressure regulator stage upstream of the working regulator (two-stage regulation).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FirstStage {
+    /// Intermediate (outlet) pressure the stage holds, Pa absolute.
+    pub set_pressure_pa: f64,
+    /// Pressure across the stage when it has dropped out (wide open), Pa: it regulates while
+    /// its inlet is at least set pressure + this margin.
+    pub dropout_margin_pa: f64,
+    /// How much flow the stage delivers between its set pressure and the pressure downstream.
+    pub capacity: SupplyCapacity,
+}
+
 /// A regulator feeding a manifold shared by several ports.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct SharedSupply {
     set_pressure_pa: f64,
     temperature_k: f64,
     capacity: SupplyCapacity,
+    first_stage: Option<FirstStage>,
+    /// Dropout margin of the working stage, Pa (used only with a first stage).
+    dropout_margin_pa: f64,
+}
+
+/// Lowest tank pressure at which a chain of regulator stages still holds the working pressure,
+/// Pa absolute. `stages` run from the tank to the valves as (set pressure Pa absolute, dropout
+/// margin Pa). The last stage needs its set pressure plus its margin at its inlet; every stage
+/// upstream of it, once it has dropped out, passes its inlet pressure less its own margin. So
+/// the tank must hold the last set pressure plus the sum of all margins. None for no stages.
+pub fn chain_dropout_tank_pressure_pa(stages: &[(f64, f64)]) -> Option<f64> {
+    let (last_set, _) = *stages.last()?;
+    Some(last_set + stages.iter().map(|s| s.1).sum::<f64>())
 }
 
 impl SharedSupply {
@@ -240,7 +265,46 @@ impl SharedSupply {
             set_pressure_pa,
             temperature_k,
             capacity,
+            first_stage: None,
+            dropout_margin_pa: 0.0,
         })
+    }
+
+    /// The same supply fed through a first (high-pressure) stage. `dropout_margin_pa` is the
+    /// working stage's own margin: with more flow than the first stage can pass at an
+    /// intermediate pressure of (manifold + that margin), the manifold pressure falls.
+    /// The first stage must be set at least at the working set pressure plus that margin.
+    pub fn with_first_stage(
+        mut self,
+        first: FirstStage,
+        dropout_margin_pa: f64,
+    ) -> Result<SharedSupply, FlowError> {
+        positive("first-stage set pressure", first.set_pressure_pa)?;
+        non_negative("first-stage dropout margin", first.dropout_margin_pa)?;
+        let margin = non_negative("dropout margin", dropout_margin_pa)?;
+        if let SupplyCapacity::LinearDroop {
+            droop_pa,
+            reference_flow_kg_s,
+        } = first.capacity
+        {
+            positive("first-stage droop", droop_pa)?;
+            positive("first-stage droop reference flow", reference_flow_kg_s)?;
+        }
+        if first.set_pressure_pa < self.set_pressure_pa + margin {
+            return Err(FlowError::InvalidInput {
+                name: "first-stage set pressure",
+                value: first.set_pressure_pa,
+                expected: "at least the working set pressure plus its dropout margin",
+            });
+        }
+        self.first_stage = Some(first);
+        self.dropout_margin_pa = margin;
+        Ok(self)
+    }
+
+    /// The first stage, if the supply has one.
+    pub fn first_stage(&self) -> Option<FirstStage> {
+        self.first_stage
     }
 
     /// Regulator set pressure, Pa absolute.
@@ -256,26 +320,72 @@ impl SharedSupply {
         self.capacity
     }
 
-    /// Flow the supply delivers when the manifold sits at `manifold_pa`.
+    /// Flow the supply delivers when the manifold sits at `manifold_pa`: the working stage's
+    /// capacity, and with a first stage no more than that stage passes from its set pressure
+    /// down to (manifold + the working stage's dropout margin), the lowest intermediate
+    /// pressure at which the flow still gets through.
     fn delivered(&self, manifold_pa: f64, ctx: &FlowContext<'_>) -> Result<f64, FlowError> {
-        match self.capacity {
-            SupplyCapacity::Unlimited => Ok(f64::INFINITY),
-            SupplyCapacity::Restriction(v) => {
-                let rho = density(ctx.density, self.set_pressure_pa, self.temperature_k)?;
-                Ok(
-                    v.flow(self.set_pressure_pa, manifold_pa, rho, ctx.gas.gamma)?
-                        .mass_flow_kg_s,
-                )
+        let second = stage_flow(
+            self.capacity,
+            self.set_pressure_pa,
+            manifold_pa,
+            self.temperature_k,
+            ctx,
+        )?;
+        match self.first_stage {
+            None => Ok(second),
+            Some(f) => {
+                let downstream = manifold_pa + self.dropout_margin_pa;
+                let first = if downstream >= f.set_pressure_pa {
+                    0.0
+                } else {
+                    stage_flow(
+                        f.capacity,
+                        f.set_pressure_pa,
+                        downstream,
+                        self.temperature_k,
+                        ctx,
+                    )?
+                };
+                Ok(second.min(first))
             }
-            SupplyCapacity::LinearDroop {
-                droop_pa,
-                reference_flow_kg_s,
-            } => Ok(
-                ((self.set_pressure_pa - manifold_pa) / droop_pa * reference_flow_kg_s).max(0.0),
-            ),
         }
     }
 
+    fn limited(&self) -> bool {
+        self.capacity != SupplyCapacity::Unlimited
+            || self
+                .first_stage
+                .is_some_and(|f| f.capacity != SupplyCapacity::Unlimited)
+    }
+}
+
+/// Flow a stage of the given capacity delivers from `set_pa` to `downstream_pa`.
+fn stage_flow(
+    capacity: SupplyCapacity,
+    set_pa: f64,
+    downstream_pa: f64,
+    temperature_k: f64,
+    ctx: &FlowContext<'_>,
+) -> Result<f64, FlowError> {
+    if downstream_pa >= set_pa {
+        return Ok(0.0);
+    }
+    match capacity {
+        SupplyCapacity::Unlimited => Ok(f64::INFINITY),
+        SupplyCapacity::Restriction(v) => {
+            let rho = density(ctx.density, set_pa, temperature_k)?;
+            Ok(v.flow(set_pa, downstream_pa, rho, ctx.gas.gamma)?
+                .mass_flow_kg_s)
+        }
+        SupplyCapacity::LinearDroop {
+            droop_pa,
+            reference_flow_kg_s,
+        } => Ok(((set_pa - downstream_pa) / droop_pa * reference_flow_kg_s).max(0.0)),
+    }
+}
+
+impl SharedSupply {
     /// Solve the manifold pressure with `ports` open: the flow the supply
     /// delivers equals the sum of the ports' flows.
     pub fn solve(
@@ -319,7 +429,7 @@ impl SharedSupply {
         check_gas(&ctx.gas)?;
         let pa = non_negative("ambient pressure", ctx.ambient_pa)?;
         let ps = self.set_pressure_pa;
-        if no_ports || ps <= pa || self.capacity == SupplyCapacity::Unlimited {
+        if no_ports || ps <= pa || !self.limited() {
             return Ok(ps);
         }
         let tol = &ctx.tolerances;
@@ -712,5 +822,87 @@ mod tests {
             .equal_ports(&nitrogen_port(), 0, 0.05, &ctx(&d))
             .is_err());
         assert!(IdealDensity::with_compressibility(&Gas::Nitrogen.ideal(), 0.0).is_err());
+    }
+
+    /// Chain dropout, closed form: the last set pressure plus every stage's margin.
+    #[test]
+    fn chain_dropout_is_the_last_set_pressure_plus_all_margins() {
+        assert_eq!(chain_dropout_tank_pressure_pa(&[]), None);
+        assert_eq!(chain_dropout_tank_pressure_pa(&[(10e5, 3e5)]), Some(13e5));
+        assert_eq!(
+            chain_dropout_tank_pressure_pa(&[(60e5, 8e5), (10e5, 3e5)]),
+            Some(21e5)
+        );
+    }
+
+    /// A first stage with unlimited capacity changes nothing downstream.
+    #[test]
+    fn unlimited_first_stage_leaves_the_manifold_alone() {
+        let d = IdealDensity::new(&Gas::Nitrogen.ideal()).unwrap();
+        let c = ctx(&d);
+        for s in supplies() {
+            let two = s
+                .with_first_stage(
+                    FirstStage {
+                        set_pressure_pa: 60e5,
+                        dropout_margin_pa: 5e5,
+                        capacity: SupplyCapacity::Unlimited,
+                    },
+                    3e5,
+                )
+                .unwrap();
+            for k in [1, 4] {
+                let a = s.solve(&vec![nitrogen_port(); k], &c).unwrap();
+                let b = two.solve(&vec![nitrogen_port(); k], &c).unwrap();
+                assert_relative_eq!(
+                    a.manifold_pressure_pa,
+                    b.manifold_pressure_pa,
+                    max_relative = 1e-12
+                );
+            }
+        }
+    }
+
+    /// A first stage set exactly at the working set pressure plus the working margin, with a
+    /// linear droop, and an unlimited working stage: the flow must pass the first stage from
+    /// its set pressure down to manifold + margin, so the manifold sits at
+    /// set − droop × flow / reference (closed form), and more open valves lower it further.
+    #[test]
+    fn first_stage_droop_limits_the_manifold() {
+        let d = IdealDensity::new(&Gas::Nitrogen.ideal()).unwrap();
+        let c = ctx(&d);
+        let set = 790_801.0;
+        let margin = 2e5;
+        let s = SharedSupply::new(set, 293.0, SupplyCapacity::Unlimited)
+            .unwrap()
+            .with_first_stage(
+                FirstStage {
+                    set_pressure_pa: set + margin,
+                    dropout_margin_pa: 5e5,
+                    capacity: SupplyCapacity::LinearDroop {
+                        droop_pa: 40e3,
+                        reference_flow_kg_s: 5e-3,
+                    },
+                },
+                margin,
+            )
+            .unwrap();
+        let m = s.solve(&[nitrogen_port()], &c).unwrap();
+        let expected = set - 40e3 * m.total_mass_flow_kg_s / 5e-3;
+        assert_relative_eq!(m.manifold_pressure_pa, expected, max_relative = 1e-8);
+        let sweep = s.equal_ports(&nitrogen_port(), 4, 0.05, &c).unwrap();
+        assert!(sweep.rows[3].manifold_pressure_pa < sweep.rows[0].manifold_pressure_pa);
+        // Set below the working set pressure plus its margin: refused.
+        assert!(SharedSupply::new(set, 293.0, SupplyCapacity::Unlimited)
+            .unwrap()
+            .with_first_stage(
+                FirstStage {
+                    set_pressure_pa: set + 0.5 * margin,
+                    dropout_margin_pa: 5e5,
+                    capacity: SupplyCapacity::Unlimited,
+                },
+                margin,
+            )
+            .is_err());
     }
 }

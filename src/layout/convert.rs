@@ -728,13 +728,108 @@ fn read_feed(r: &mut Reader, f: &Spanned<FeedFile>) -> Feed {
         closing_delay_s: r.non_negative(&v.closing_delay, "feed.valve.closing_delay", Kind::Time),
         coil_current_a: r.non_negative(&v.coil_current, "feed.valve.coil_current", Kind::Current),
     };
+    let first_stage = read_first_stage(r, f, &regulator, &tank);
     Feed {
         gas,
         tank,
         regulator,
-        first_stage: None,
+        first_stage,
         valve,
     }
+}
+
+/// `[feed.first_stage]`: a high-pressure regulator stage between the tank and
+/// `[feed.regulator]`, with the same fields. Its set pressure must be at least the working set
+/// pressure plus the working stage's dropout margin, and the fill pressure must exceed the
+/// chain's dropout tank pressure (working set + both margins).
+fn read_first_stage(
+    r: &mut Reader,
+    f: &FeedFile,
+    working: &Regulator,
+    tank: &Tank,
+) -> Option<Regulator> {
+    let s = f.first_stage.as_ref()?;
+    let g = s.get_ref();
+    let set_field = "feed.first_stage.set_pressure";
+    let set_gauge = match units::parse_pressure(g.set_pressure.get_ref()) {
+        Ok(p) => {
+            r.note_bare(&g.set_pressure, set_field, p.reference);
+            let gauge = p.gauge_pa(STANDARD_ATMOSPHERE_PA);
+            let need = working.set_pressure_gauge_pa + working.dropout_margin_pa;
+            if need.is_finite() && gauge < need {
+                r.problem(
+                    g.set_pressure.span(),
+                    set_field,
+                    format!(
+                        "expected a first-stage set pressure of at least the regulator's set pressure plus its dropout margin ({:.0} kPa gauge), so the second stage can regulate",
+                        need / 1e3
+                    ),
+                );
+            }
+            gauge
+        }
+        Err(e) => {
+            r.problem(g.set_pressure.span(), set_field, e.to_string());
+            f64::NAN
+        }
+    };
+    let dropout = g.dropout_margin.as_ref().map_or(0.0, |q| {
+        r.pressure_difference(q, "feed.first_stage.dropout_margin")
+    });
+    if let FillSpec::Pressure { pressure_pa } = tank.fill {
+        let end = working.set_pressure_gauge_pa
+            + working.dropout_margin_pa
+            + dropout
+            + STANDARD_ATMOSPHERE_PA;
+        if pressure_pa.is_finite() && end.is_finite() && end >= pressure_pa {
+            r.problem(
+                g.set_pressure.span(),
+                "feed.tank.fill_pressure",
+                format!(
+                    "the fill pressure must exceed the two-stage chain's dropout pressure (regulator set pressure plus both dropout margins, {:.0} kPa absolute)",
+                    end / 1e3
+                ),
+            );
+        }
+    }
+    let supply = match (&g.supply_cv, &g.droop, &g.droop_at) {
+        (None, None, None) => SupplyCapacity::Unlimited,
+        (Some(cv), None, None) => SupplyCapacity::Cv {
+            cv: r.flow_coefficient(cv, "feed.first_stage.supply_cv"),
+            xt: r.fraction(
+                g.supply_xt.as_ref(),
+                "feed.first_stage.supply_xt",
+                0.7,
+                0.05,
+                1.0,
+            ),
+        },
+        (None, Some(d), Some(at)) => {
+            let droop_pa = r.pressure_difference(d, "feed.first_stage.droop");
+            let at_flow_kg_s = r.positive(at, "feed.first_stage.droop_at", Kind::MassFlow);
+            if droop_pa == 0.0 {
+                SupplyCapacity::Unlimited
+            } else {
+                SupplyCapacity::Droop {
+                    droop_pa,
+                    at_flow_kg_s,
+                }
+            }
+        }
+        _ => {
+            r.problem(
+                s.span(),
+                "feed.first_stage",
+                "give either `supply_cv` or both `droop` and `droop_at`, not a mix",
+            );
+            SupplyCapacity::Unlimited
+        }
+    };
+    Some(Regulator {
+        set_pressure_gauge_pa: set_gauge,
+        dropout_margin_pa: dropout,
+        supply,
+    })
 }
 
 fn read_ports(r: &mut Reader, raw: &LayoutFile, airframe: &Airframe) -> Vec<Port> {

@@ -186,6 +186,9 @@ pub struct FeedFile {
     pub tank: Spanned<TankFile>,
     /// `[feed.regulator]`.
     pub regulator: Spanned<RegulatorFile>,
+    /// `[feed.first_stage]`: optional high-pressure stage ahead of the regulator.
+    #[serde(default)]
+    pub first_stage: Option<Spanned<RegulatorFile>>,
     /// `[feed.valve]`.
     pub valve: Spanned<ValveFile>,
 }

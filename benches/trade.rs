@@ -104,6 +104,13 @@ fn trade(c: &mut Criterion) {
     });
     let big = ten_thousand(&cat);
     assert_eq!(big.combinations(), 10_000);
+    // Every combination passes the rules, so the study below analyses all of them.
+    for i in 0..big.combinations() {
+        let ch = Choice::from_index(&big, i);
+        let d = portwright::trade::combine::apply(&design, &big, &ch);
+        let p = evaluate::pressures(&d).expect("pressures");
+        assert!(portwright::trade::rules::check(&d, &big, &ch, &p).is_empty());
+    }
     g.sample_size(10);
     g.bench_function("10 000 combinations, Heron 54, 8 ports, 3 states", |b| {
         b.iter(|| study::run(black_box(&design), &big, &StudySettings::default(), None))

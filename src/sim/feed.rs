@@ -65,7 +65,7 @@ impl FeedMap {
             })
         };
         let ctx = FlowContext {
-            gas: gas.ideal(),
+            gas: crate::analysis::feed::flow_gas(design, ambient_pa),
             density: &density,
             ambient_pa,
             tolerances: FlowTolerances::default(),
@@ -109,7 +109,12 @@ impl FeedMap {
             let m = supply.solve(std::slice::from_ref(c), &ctx)?;
             single_ratio.push((m.manifold_pressure_pa - ambient_pa) / (set - ambient_pa).max(1e-9));
         }
-        let reg = &design.feed.regulator;
+        // With two regulator stages the chain drops out when the tank can no longer feed the
+        // first stage's set pressure plus its margin; the working stage then follows the tank
+        // down by the chain's whole margin.
+        let dropout_pressure_pa =
+            crate::analysis::feed::dropout_tank_pressure_pa(design, ambient_pa);
+        let dropout_margin_pa = (dropout_pressure_pa - set).max(0.0);
         Ok(FeedMap {
             pressures_pa,
             thrust_n,
@@ -117,8 +122,8 @@ impl FeedMap {
             droop_ratio,
             single_ratio,
             set_pressure_pa: set,
-            dropout_pressure_pa: set + reg.dropout_margin_pa,
-            dropout_margin_pa: reg.dropout_margin_pa,
+            dropout_pressure_pa,
+            dropout_margin_pa,
             ambient_pa,
             reference_temperature_k: t,
         })

@@ -142,7 +142,7 @@ fn state_report(
         })
     };
     let ctx = FlowContext {
-        gas: gas.ideal(),
+        gas: crate::analysis::feed::flow_gas(design, ambient_pa),
         density: &density,
         ambient_pa,
         tolerances: FlowTolerances::default(),

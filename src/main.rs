@@ -278,6 +278,7 @@ fn run(cli: Cli) -> Result<()> {
             layout,
             parts,
             seed,
+            hold_case,
             json,
             out,
         } => {
@@ -285,7 +286,8 @@ fn run(cli: Cli) -> Result<()> {
                 seed,
                 ..Default::default()
             };
-            let outcome = cli::trade::run(&layout, parts.as_deref(), &settings)?;
+            let outcome =
+                cli::trade::run(&layout, parts.as_deref(), &settings, hold_case.as_deref())?;
             print!("{}", outcome.render(json)?);
             if let Some(dir) = out {
                 let inputs = [layout.as_path(), outcome.parts_path.as_path()];

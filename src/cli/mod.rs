@@ -198,6 +198,10 @@ pub enum Command {
         /// Seed of the search used when the catalogue is too large to try every combination.
         #[arg(long, default_value_t = 1)]
         seed: u64,
+        /// Rank by hold time too: fly this [[case]] of the layout with every combination that
+        /// breaks no rule (one nominal simulation each).
+        #[arg(long, value_name = "CASE")]
+        hold_case: Option<String>,
         /// Print JSON instead of text.
         #[arg(long)]
         json: bool,

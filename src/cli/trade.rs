@@ -44,7 +44,13 @@ impl Outcome {
 
 /// Read both files and run the study. `parts_arg` is `--parts`; without it the
 /// layout's `[parts] file` is used.
-pub fn run(path: &Path, parts_arg: Option<&Path>, settings: &StudySettings) -> Result<Outcome> {
+/// `hold_case` is `--hold-case`: the `[[case]]` flown with each combination for its hold time.
+pub fn run(
+    path: &Path,
+    parts_arg: Option<&Path>,
+    settings: &StudySettings,
+    hold_case: Option<&str>,
+) -> Result<Outcome> {
     let name = path.display().to_string();
     let text = layout::read_text(path)?;
     let design = layout::parse_str(&text, &name)?;
@@ -72,8 +78,37 @@ pub fn run(path: &Path, parts_arg: Option<&Path>, settings: &StudySettings) -> R
             .into())
         }
     };
+    let hold = match hold_case {
+        None => None,
+        Some(c) => {
+            let cases = layout::case_sections(&text, &name, &design)?;
+            match cases.iter().find(|x| x.name.eq_ignore_ascii_case(c)) {
+                Some(case) => Some(trade::hold::SimulatedHold { case: case.clone() }),
+                None => {
+                    let names: Vec<String> =
+                        cases.iter().map(|x| format!("`{}`", x.name)).collect();
+                    return Err(UsageError(format!(
+                        "--hold-case \"{c}\": the layout has no such [[case]]; it has {}",
+                        if names.is_empty() {
+                            "none".to_string()
+                        } else {
+                            names.join(", ")
+                        }
+                    ))
+                    .into());
+                }
+            }
+        }
+    };
     let cat = parts::load(&parts_path, &design, section.placement)?;
-    let (study, whats) = trade::run(&design, &cat, settings, &WhatSettings::default(), None);
+    let hold_source = hold.as_ref().map(|h| h as &dyn trade::evaluate::HoldTime);
+    let (study, whats) = trade::run(
+        &design,
+        &cat,
+        settings,
+        &WhatSettings::default(),
+        hold_source,
+    );
     let basis = trade::basis(&study);
     let report = report::trade_report(&design, &cat, &study, &whats, basis);
     let plots = report::plots(&study, &whats, &cat.currency);
@@ -90,7 +125,9 @@ pub fn for_run(path: &Path) -> Result<Option<Outcome>> {
     let text = layout::read_text(path)?;
     let design = layout::parse_str(&text, &name)?;
     match parts::section(&text, &design) {
-        Ok(Some(s)) if s.file.is_some() => run(path, None, &StudySettings::default()).map(Some),
+        Ok(Some(s)) if s.file.is_some() => {
+            run(path, None, &StudySettings::default(), None).map(Some)
+        }
         _ => Ok(None),
     }
 }

@@ -8,6 +8,7 @@
 //! - [`rules`]: named rules that reject a combination;
 //! - [`evaluate`]: the real analysis of one combination and its figures, with
 //!   the hold-time slot for the simulation;
+//! - [`hold`]: the slot filled by the closed-loop simulation of one case;
 //! - [`pareto`]: the dominance rule, the Pareto set and its brute-force check;
 //! - [`study`]: every combination or a seeded search, in parallel;
 //! - [`what_it_takes`]: the least value of one property by bracketing and bisection;
@@ -17,6 +18,7 @@ pub mod catalogue;
 pub mod combine;
 pub mod evaluate;
 pub mod fast;
+pub mod hold;
 pub mod pareto;
 pub mod plots;
 pub mod report;

@@ -588,3 +588,30 @@ fn a_hold_time_source_takes_part_in_requirements_and_ranking() {
     // with hold time counted.
     assert_eq!(held.pareto.len(), 2);
 }
+
+/// The simulation fills the slot: the hold time of each combination is the one
+/// `sim::hold_time` gives for that combination's design and the case alone.
+#[test]
+fn simulated_hold_time_is_the_simulation_of_each_combination() {
+    let (d, c) = demo(HERON);
+    let c = small(&c, &[1], &[0], &[1], &[0, 1], &[&[1], &[0]]);
+    let text = include_str!("../../layouts/heron-54.toml");
+    let mut case = crate::layout::case_sections(text, "heron", &d)
+        .unwrap()
+        .into_iter()
+        .find(|k| k.name == "coast hold")
+        .unwrap();
+    // A short case keeps the debug test quick; the hold is capped by it.
+    case.duration_s = 3.0;
+    let hold = super::hold::SimulatedHold { case: case.clone() };
+    let held = study::run(&d, &c, &StudySettings::default(), Some(&hold));
+    assert!(held.with_hold_time);
+    for e in &held.evaluated {
+        let m = e.metrics().unwrap();
+        let h = m.hold_time_s.expect("hold time simulated");
+        let design = super::combine::apply(&d, &c, &e.choice);
+        let direct = crate::sim::hold_time(&design, &case).unwrap();
+        assert_eq!(h, direct, "{}", e.choice.describe(&c));
+        assert!(h > 0.0 && h <= 3.0, "{h}");
+    }
+}

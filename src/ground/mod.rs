@@ -1,0 +1,3 @@
+//! Ground work before a flight: filling the flight tank from supply bottles.
+
+pub mod fill;

@@ -464,9 +464,7 @@ pub fn validity(gas: Gas, pressure_pa: f64, temperature_k: f64) -> Result<Validi
     let p = check_pressure(pressure_pa)?;
     let normal = (NORMAL_MIN_TEMPERATURE_K..=NORMAL_MAX_TEMPERATURE_K).contains(&t)
         && p <= NORMAL_MAX_PRESSURE_PA;
-    // Cold saturated CO2 down to its triple point is inside the equation's fitted data.
-    let co2_cold_ok = gas == Gas::CarbonDioxide && t <= NORMAL_MAX_TEMPERATURE_K;
-    Ok(if normal || (co2_cold_ok && p <= NORMAL_MAX_PRESSURE_PA) {
+    Ok(if normal {
         Validity::Normal
     } else {
         Validity::Extended

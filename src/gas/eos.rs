@@ -727,9 +727,13 @@ pub struct ModelUncertainty {
     pub gas_density_fraction: f64,
     /// Gas-phase density below 200 K (down to 150 K), relative.
     pub cold_gas_density_fraction: f64,
-    /// Saturated and compressed liquid density, relative (CO2 only; None for the others).
+    /// Saturated and compressed liquid density, relative (CO2 only; None, and absent from the
+    /// JSON, for the others).
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub liquid_density_fraction: Option<f64>,
-    /// Vapour pressure, relative (CO2, 250–303 K; None for the others).
+    /// Vapour pressure, relative (CO2, 250–303 K; None, and absent from the JSON, for the
+    /// others).
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub vapour_pressure_fraction: Option<f64>,
     /// Isothermal usable gas of a blowdown, relative.
     pub usable_isothermal_fraction: f64,

@@ -1331,6 +1331,22 @@ mod tests {
         }
     }
 
+    /// Saturation works over its whole stated range for the pure fluids, up to the gap below
+    /// the critical temperature, with the liquid denser than the vapour.
+    #[test]
+    fn saturation_covers_its_range() {
+        for gas in [Gas::Nitrogen, Gas::CarbonDioxide, Gas::Argon] {
+            let (lo, hi) = saturation_range_k(gas);
+            for t in [lo, 0.5 * (lo + hi), hi - 1.0, hi] {
+                let s = saturation(gas, t).unwrap_or_else(|e| panic!("{gas:?} {t}: {e}"));
+                assert!(
+                    s.liquid.density_kg_m3 > s.vapour.density_kg_m3,
+                    "{gas:?} {t}"
+                );
+            }
+        }
+    }
+
     #[test]
     fn every_composition_is_accepted() {
         for gas in ALL {

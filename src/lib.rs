@@ -8,6 +8,7 @@ pub mod asbuilt;
 pub mod atmosphere;
 pub mod export;
 pub mod gas;
+pub mod ground;
 pub mod layout;
 pub mod mass;
 pub mod model;

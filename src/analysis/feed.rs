@@ -69,7 +69,9 @@ pub struct GasBudget {
     /// The equation of state's measured uncertainty for this gas, per quantity.
     pub model_uncertainty: crate::gas::eos::ModelUncertainty,
     /// Where an adiabatic blowdown of a single-phase gas first meets the saturation line and
-    /// begins to condense (tank pressure Pa absolute, temperature K), if it does.
+    /// begins to condense (tank pressure Pa absolute, temperature K), if it does (absent from
+    /// the JSON when it does not).
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub condensation: Option<crate::gas::tank::DomeEntry>,
     /// Total impulse of the usable gas, isothermal bound, N·s.
     pub total_impulse_isothermal_n_s: f64,

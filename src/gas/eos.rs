@@ -464,9 +464,7 @@ pub fn validity(gas: Gas, pressure_pa: f64, temperature_k: f64) -> Result<Validi
     let p = check_pressure(pressure_pa)?;
     let normal = (NORMAL_MIN_TEMPERATURE_K..=NORMAL_MAX_TEMPERATURE_K).contains(&t)
         && p <= NORMAL_MAX_PRESSURE_PA;
-    // Cold saturated CO2 down to its triple point is inside the equation's fitted data.
-    let co2_cold_ok = gas == Gas::CarbonDioxide && t <= NORMAL_MAX_TEMPERATURE_K;
-    Ok(if normal || (co2_cold_ok && p <= NORMAL_MAX_PRESSURE_PA) {
+    Ok(if normal {
         Validity::Normal
     } else {
         Validity::Extended
@@ -729,9 +727,13 @@ pub struct ModelUncertainty {
     pub gas_density_fraction: f64,
     /// Gas-phase density below 200 K (down to 150 K), relative.
     pub cold_gas_density_fraction: f64,
-    /// Saturated and compressed liquid density, relative (CO2 only; None for the others).
+    /// Saturated and compressed liquid density, relative (CO2 only; None, and absent from the
+    /// JSON, for the others).
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub liquid_density_fraction: Option<f64>,
-    /// Vapour pressure, relative (CO2, 250–303 K; None for the others).
+    /// Vapour pressure, relative (CO2, 250–303 K; None, and absent from the JSON, for the
+    /// others).
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub vapour_pressure_fraction: Option<f64>,
     /// Isothermal usable gas of a blowdown, relative.
     pub usable_isothermal_fraction: f64,
@@ -1326,6 +1328,22 @@ mod tests {
             let ds = specific_entropy(gas, p, t + dt).unwrap()
                 - specific_entropy(gas, p, t - dt).unwrap();
             assert!((dh / t / ds - 1.0).abs() < 2e-5, "{gas:?}: {dh} {ds}");
+        }
+    }
+
+    /// Saturation works over its whole stated range for the pure fluids, up to the gap below
+    /// the critical temperature, with the liquid denser than the vapour.
+    #[test]
+    fn saturation_covers_its_range() {
+        for gas in [Gas::Nitrogen, Gas::CarbonDioxide, Gas::Argon] {
+            let (lo, hi) = saturation_range_k(gas);
+            for t in [lo, 0.5 * (lo + hi), hi - 1.0, hi] {
+                let s = saturation(gas, t).unwrap_or_else(|e| panic!("{gas:?} {t}: {e}"));
+                assert!(
+                    s.liquid.density_kg_m3 > s.vapour.density_kg_m3,
+                    "{gas:?} {t}"
+                );
+            }
         }
     }
 

@@ -151,3 +151,15 @@ fn a_layout_without_parts_section_or_file_is_refused() {
     assert_eq!(code, 2, "{err}");
     assert!(err.contains("--parts"), "{err}");
 }
+
+/// `--hold-case` naming no `[[case]]` of the layout is a command-line problem,
+/// refused before any combination is evaluated, with the cases the layout has.
+#[test]
+fn an_unknown_hold_case_exits_2_and_names_the_cases() {
+    let (code, _, err) = run(&["trade", "layouts/heron-54.toml", "--hold-case", "nope"]);
+    assert_eq!(code, 2, "{err}");
+    assert!(
+        err.contains("--hold-case \"nope\"") && err.contains("`coast hold`"),
+        "{err}"
+    );
+}

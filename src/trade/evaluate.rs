@@ -23,7 +23,7 @@ pub trait HoldTime: Send + Sync {
 
 /// What the report says when no hold-time source is given.
 pub const HOLD_TIME_NOT_COMPUTED: &str =
-    "not computed: hold time needs the closed-loop simulation, which this build does not have";
+    "not computed: `trade --hold-case NAME` flies one of the layout's [[case]] sections with each combination for its hold time";
 
 /// The figures of an accepted combination.
 #[derive(Debug, Clone, PartialEq, Serialize)]

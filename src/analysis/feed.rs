@@ -245,8 +245,9 @@ pub fn dropout_tank_pressure_pa(design: &Design, ambient_pa: f64) -> f64 {
     crate::gas::chain::chain_dropout_tank_pressure_pa(&stages).unwrap_or(ambient_pa)
 }
 
-/// Real-gas density for the flow models.
-fn real_density(gas: crate::gas::Gas) -> impl Fn(f64, f64) -> Result<f64, FlowError> {
+/// Real-gas density for the flow models (the same function serves the analysis, the
+/// simulation's feed map and the trade study's quick path, so all three see one gas).
+pub fn real_density(gas: crate::gas::Gas) -> impl Fn(f64, f64) -> Result<f64, FlowError> {
     move |p, t| {
         eos::density(gas, p, t).map_err(|e| FlowError::Density {
             pressure_pa: p,

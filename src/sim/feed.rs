@@ -20,7 +20,7 @@
 
 use crate::analysis::feed::{port_chains, shared_supply, ALLOWED_DROOP};
 use crate::gas::chain::FlowContext;
-use crate::gas::{eos, FlowError, FlowTolerances};
+use crate::gas::{FlowError, FlowTolerances};
 use crate::model::Design;
 
 /// Points of the per-port pressure grid.
@@ -57,13 +57,7 @@ impl FeedMap {
     /// Solve the map for a design at an ambient pressure.
     pub fn new(design: &Design, ambient_pa: f64) -> Result<Self, FlowError> {
         let gas = design.feed.gas;
-        let density = move |p: f64, t: f64| {
-            eos::density(gas, p, t).map_err(|e| FlowError::Density {
-                pressure_pa: p,
-                temperature_k: t,
-                reason: e.to_string(),
-            })
-        };
+        let density = crate::analysis::feed::real_density(gas);
         let ctx = FlowContext {
             gas: crate::analysis::feed::flow_gas(design, ambient_pa),
             density: &density,

@@ -25,7 +25,7 @@ use super::rules::{self, Breach, Rule};
 use crate::analysis::feed::{self, GasBudget, PortReport};
 use crate::analysis::{self, authority, EnvelopeSummary, StateReport};
 use crate::gas::chain::FlowContext;
-use crate::gas::{eos, FlowError, FlowTolerances};
+use crate::gas::FlowTolerances;
 use crate::model::{Design, NozzleSpec};
 use nalgebra::Vector3;
 use std::sync::OnceLock;
@@ -134,13 +134,7 @@ fn state_report(
     budget: &GasBudget,
 ) -> Option<StateReport> {
     let gas = design.feed.gas;
-    let density = move |p: f64, t: f64| {
-        eos::density(gas, p, t).map_err(|e| FlowError::Density {
-            pressure_pa: p,
-            temperature_k: t,
-            reason: e.to_string(),
-        })
-    };
+    let density = crate::analysis::feed::real_density(gas);
     let ctx = FlowContext {
         gas: crate::analysis::feed::flow_gas(design, ambient_pa),
         density: &density,

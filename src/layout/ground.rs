@@ -326,3 +326,123 @@ pub fn read(text: &str, tank_fill_pressure_pa: f64) -> Result<Option<GroundSpec>
         arming_delay_s: arming_delay_s.unwrap_or(0.0),
     }))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::layout::parse_layout;
+
+    /// A CO2 demo layout with no `[ground]` section of its own.
+    const DEMO: &str = include_str!("../../layouts/osprey-98.toml");
+
+    fn with(section: &str) -> String {
+        format!("{DEMO}\n{section}\n")
+    }
+
+    /// The line of `needle` in the layout with `section` added, from 1.
+    fn line_of(text: &str, needle: &str) -> usize {
+        let at = text.find(needle).expect("needle in text");
+        text[..at].lines().count() + usize::from(text[..at].ends_with('\n'))
+    }
+
+    fn problems(section: &str) -> (String, Vec<Diagnostic>) {
+        let text = with(section);
+        let e = parse_layout(&text, "t.toml").expect_err("the layout must be refused");
+        (text, e.problems().to_vec())
+    }
+
+    #[test]
+    fn section_is_read_in_si() {
+        let text = with(
+            "[ground]\nrated_pressure = \"100 barg\"\nrelief_pressure = \"120 bara\"\npad_temperatures = [\"-5 C\", \"45 C\"]\npad_time = \"2 h\"\narming_delay = \"40 ms\"\n[ground.leak]\nstandard_volume = \"30 mL\"\nover = \"1 h\"\n[[ground.bottle]]\nvolume = \"2 L\"\npressure = \"200 barg\"\n",
+        );
+        let d = parse_layout(&text, "t.toml").unwrap().design;
+        let g = d.ground.expect("a [ground] section");
+        // Gauge pressures are above the 101 325 Pa standard atmosphere.
+        assert_eq!(g.rated_pressure_pa, Some(100e5 + 101_325.0));
+        assert_eq!(g.relief_pressure_pa, Some(120e5));
+        assert_eq!(g.pad_temperatures_k, vec![268.15, 318.15]);
+        assert_eq!(g.pad_time_s, 7200.0);
+        assert!((g.arming_delay_s - 0.04).abs() < 1e-15);
+        assert_eq!(g.start_pressure_pa, 101_325.0);
+        match g.leak {
+            Some(LeakRate::StandardFlow { standard_m3_s }) => {
+                assert!((standard_m3_s - 30e-6 / 3600.0).abs() < 1e-18)
+            }
+            other => panic!("{other:?}"),
+        }
+        assert_eq!(g.bottles.len(), 1);
+        assert!((g.bottles[0].volume_m3 - 2e-3).abs() < 1e-15);
+        assert_eq!(g.bottles[0].pressure_pa, 200e5 + 101_325.0);
+        // No section: none.
+        assert!(parse_layout(DEMO, "t.toml")
+            .unwrap()
+            .design
+            .ground
+            .is_none());
+    }
+
+    #[test]
+    fn a_bad_quantity_is_located_with_its_field() {
+        let (text, p) = problems("[ground]\npad_time = \"2 kg\"\n");
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].field, "ground.pad_time");
+        assert_eq!(p[0].line, line_of(&text, "pad_time = \"2 kg\""));
+        assert_eq!(p[0].column, 12);
+    }
+
+    #[test]
+    fn a_zero_bottle_volume_is_refused_at_the_bottle() {
+        let (text, p) =
+            problems("[ground]\n[[ground.bottle]]\nvolume = \"0 L\"\npressure = \"200 barg\"\n");
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].field, "ground.bottle[1].volume");
+        assert_eq!(p[0].line, line_of(&text, "volume = \"0 L\""));
+        assert!(p[0].message.contains("above zero"), "{}", p[0].message);
+    }
+
+    #[test]
+    fn relief_below_rating_is_refused() {
+        let (text, p) = problems(
+            "[ground]\nrated_pressure = \"100 barg\"\nrelief_pressure = \"90 barg\"\npad_temperatures = [\"45 C\"]\n",
+        );
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].field, "ground.relief_pressure");
+        assert_eq!(p[0].line, line_of(&text, "relief_pressure"));
+    }
+
+    #[test]
+    fn pad_temperatures_need_a_rating() {
+        let (_, p) = problems("[ground]\npad_temperatures = [\"45 C\"]\n");
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].field, "ground.pad_temperatures");
+        assert!(p[0].message.contains("rated_pressure"));
+    }
+
+    #[test]
+    fn a_leak_needs_exactly_one_measure() {
+        let (_, p) = problems(
+            "[ground]\n[ground.leak]\nstandard_volume = \"30 mL\"\npressure_drop = \"1 bar\"\nover = \"1 h\"\n",
+        );
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].field, "ground.leak");
+        let (_, p) =
+            problems("[ground]\n[ground.leak]\npressure_drop = \"0 bar\"\nover = \"1 h\"\n");
+        assert_eq!(p[0].field, "ground.leak.pressure_drop");
+    }
+
+    #[test]
+    fn an_unknown_field_is_located() {
+        let (text, p) = problems("[ground]\npad_time = \"1 h\"\nrating = \"100 barg\"\n");
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].line, line_of(&text, "rating = "));
+        assert!(p[0].message.contains("rating"), "{}", p[0].message);
+    }
+
+    #[test]
+    fn an_empty_section_is_refused() {
+        let (_, p) = problems("[ground]\narming_delay = \"40 ms\"\n");
+        assert_eq!(p.len(), 1, "{p:?}");
+        assert_eq!(p[0].field, "ground");
+    }
+}

@@ -642,6 +642,23 @@ pub fn bundle_with(
     Bundle { files, not_written }
 }
 
+/// The "Ground" section of the HTML report: the ground lines (caution, full fills, pad-hold
+/// line), then the fill sequence table and the table of tank pressure against pad temperature.
+fn ground_section(g: &crate::ground::report::GroundReport) -> Section {
+    let mut blocks = vec![Block::List(g.lines())];
+    for t in g.tables() {
+        blocks.push(Block::Table(Table {
+            caption: t.caption,
+            headers: t.headers,
+            rows: t.rows,
+        }));
+    }
+    Section {
+        heading: "Ground".to_string(),
+        blocks,
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -714,22 +731,5 @@ mod tests {
             }
             assert!(nonzero >= 20, "{path}: only {nonzero} non-zero directions");
         }
-    }
-}
-
-/// The "Ground" section of the HTML report: the ground lines (caution, full fills, pad-hold
-/// line), then the fill sequence table and the table of tank pressure against pad temperature.
-fn ground_section(g: &crate::ground::report::GroundReport) -> Section {
-    let mut blocks = vec![Block::List(g.lines())];
-    for t in g.tables() {
-        blocks.push(Block::Table(Table {
-            caption: t.caption,
-            headers: t.headers,
-            rows: t.rows,
-        }));
-    }
-    Section {
-        heading: "Ground".to_string(),
-        blocks,
     }
 }

@@ -34,6 +34,8 @@ pub struct Design {
     /// Steepest drill angle from the surface normal the builder can drill, rad
     /// (`[limits] max_cant`, 60° when not given); steeper ports are reported.
     pub max_cant_rad: f64,
+    /// The optional `[ground]` section: filling, pad hold and pad temperatures.
+    pub ground: Option<crate::ground::spec::GroundSpec>,
 }
 
 /// Body tube, nose cone, fins and keep-out zones.

@@ -371,9 +371,32 @@ pub fn render_text(a: &Analysis) -> String {
             if p.fits { "fits" } else { "DOES NOT FIT" }
         );
     }
+    if let Some(g) = &a.ground {
+        s.push_str(&ground_text(g));
+    }
     let _ = writeln!(s, "Findings");
     for f in &a.findings {
         let _ = writeln!(s, "  * {f}");
     }
+    s
+}
+
+/// The `[ground]` section as text: its lines, then the fill sequence and pad temperature tables.
+fn ground_text(g: &crate::ground::report::GroundReport) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "Ground: filling, pad hold and pad temperatures");
+    for l in g.lines() {
+        let _ = writeln!(s, "  - {l}");
+    }
+    for t in g.tables() {
+        let _ = writeln!(s, "{}", t.caption);
+        let headers: Vec<&str> = t.headers.iter().map(String::as_str).collect();
+        let mut table = table(&headers);
+        for r in &t.rows {
+            table.add_row(r.iter().map(Cell::new).collect::<Vec<_>>());
+        }
+        let _ = writeln!(s, "{table}");
+    }
+    let _ = writeln!(s);
     s
 }

@@ -473,6 +473,7 @@ static UNITS: &[UnitRow] = &[
     row(&["ms"], Kind::Time, 1e-3),
     row(&["us", "µs"], Kind::Time, 1e-6),
     row(&["min"], Kind::Time, 60.0),
+    row(&["h", "hour", "hours"], Kind::Time, 3600.0),
     row(&["rad/s"], Kind::AngularRate, 1.0),
     row(&["deg/s", "°/s"], Kind::AngularRate, DEG),
     row(&["rpm", "rev/min"], Kind::AngularRate, RPM),

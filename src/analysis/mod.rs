@@ -33,6 +33,9 @@ pub enum AnalysisError {
     /// The gas model failed (out of range, no convergence).
     #[error("gas model: {0}")]
     Gas(String),
+    /// The `[ground]` section's filling or pad figures could not be computed.
+    #[error("[ground]: {0}")]
+    Ground(String),
     /// A flow solution failed for a port.
     #[error("port `{port}` at state `{state}`: {reason}")]
     Flow {
@@ -89,6 +92,7 @@ impl AnalysisError {
     pub fn field(&self) -> String {
         match self {
             AnalysisError::Gas(_) => "feed.tank".to_string(),
+            AnalysisError::Ground(_) => "ground".to_string(),
             AnalysisError::Flow { port, .. } => format!("port `{port}`"),
             AnalysisError::Allocation { .. } => "port".to_string(),
             AnalysisError::Atmosphere { state, .. } => format!("state `{state}`.altitude"),
@@ -205,6 +209,9 @@ pub struct Analysis {
     pub findings: Vec<String>,
     /// Safety cautions.
     pub cautions: Vec<&'static str>,
+    /// Filling, pad hold and pad temperatures, when the layout has a `[ground]` section.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub ground: Option<crate::ground::report::GroundReport>,
 }
 
 /// Torque needed per axis at a state: inertia × wanted acceleration, plus the roll
@@ -430,7 +437,27 @@ pub fn analyze(design: &Design) -> Result<Analysis, AnalysisError> {
             )
         });
     }
+    let ground = match &design.ground {
+        Some(spec) => {
+            let tank = crate::ground::report::TankAtFill {
+                gas: design.feed.gas,
+                volume_m3: design.feed.tank.volume_m3,
+                fill_temperature_k: design.feed.tank.fill_temperature_k,
+                fill_pressure_pa: budget.supply_pressure_pa,
+                fill_mass_kg: budget.inventory_kg,
+                end_pressure_pa: budget.end_pressure_pa,
+                needed_kg: manoeuvres.as_ref().map(|p| p.total_gas_kg),
+                reserve_fraction: design.requirements.gas_reserve,
+            };
+            let g = crate::ground::report::compute(&tank, spec)
+                .map_err(|e| AnalysisError::Ground(e.to_string()))?;
+            findings.extend(g.findings.iter().cloned());
+            Some(g)
+        }
+        None => None,
+    };
     Ok(Analysis {
+        ground,
         manoeuvres,
         layout: design.name.clone(),
         assumptions,

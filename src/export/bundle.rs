@@ -465,6 +465,9 @@ pub fn html_report_listing(
         });
     }
     sections.extend(extra.iter().cloned());
+    if let Some(g) = &analysis.ground {
+        sections.push(ground_section(g));
+    }
     sections.push(Section {
         heading: "Findings".to_string(),
         blocks: vec![Block::List(analysis.findings.clone())],
@@ -637,6 +640,23 @@ pub fn bundle_with(
     }
     files.extend(extra_files);
     Bundle { files, not_written }
+}
+
+/// The "Ground" section of the HTML report: the ground lines (caution, full fills, pad-hold
+/// line), then the fill sequence table and the table of tank pressure against pad temperature.
+fn ground_section(g: &crate::ground::report::GroundReport) -> Section {
+    let mut blocks = vec![Block::List(g.lines())];
+    for t in g.tables() {
+        blocks.push(Block::Table(Table {
+            caption: t.caption,
+            headers: t.headers,
+            rows: t.rows,
+        }));
+    }
+    Section {
+        heading: "Ground".to_string(),
+        blocks,
+    }
 }
 
 #[cfg(test)]

@@ -373,6 +373,7 @@ pub(crate) mod fixture {
             manoeuvres: vec![],
             readings: vec![],
             max_cant_rad: 60f64.to_radians(),
+            ground: None,
         }
     }
 }

@@ -2,3 +2,5 @@
 
 pub mod fill;
 pub mod pad;
+pub mod report;
+pub mod spec;

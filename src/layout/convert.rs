@@ -299,6 +299,8 @@ pub fn to_design(raw: &LayoutFile, text: &str) -> Result<Design, Vec<Diagnostic>
             readings: r.readings,
             // `layout::parse_str` puts the `[limits]` value here once that section is read.
             max_cant_rad: crate::optimize::constraints::Limits::default().max_total_cant_rad,
+            // `layout::parse_layout` reads `[ground]` into this.
+            ground: None,
         })
     } else {
         r.problems.sort_by_key(|p| (p.line, p.column));

@@ -55,6 +55,9 @@ pub struct LayoutFile {
     /// Simulation cases: read by `layout::cases`, kept raw here.
     #[serde(default)]
     pub case: Option<toml::Value>,
+    /// Ground work (filling, pad hold, pad temperatures): read by `layout::ground`, kept raw here.
+    #[serde(default)]
+    pub ground: Option<toml::Value>,
 }
 
 /// `[airframe]`.

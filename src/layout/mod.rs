@@ -10,6 +10,7 @@ pub mod asbuilt;
 pub mod cases;
 pub mod convert;
 pub mod file;
+pub mod ground;
 pub mod locate;
 pub mod optimizer;
 pub mod parts;
@@ -221,8 +222,21 @@ pub fn parse_layout(text: &str, source_name: &str) -> Result<Layout, LayoutError
             problems.extend(p);
         }
     }
+    // `[ground]` (filling, pad hold, pad temperatures) is read into the design.
+    let mut ground = None;
+    if let Ok(d) = &design {
+        let fill_pa = match d.feed.tank.fill {
+            crate::model::FillSpec::Pressure { pressure_pa } => pressure_pa,
+            crate::model::FillSpec::Mass { .. } => f64::INFINITY,
+        };
+        match self::ground::read(text, fill_pa) {
+            Ok(g) => ground = g,
+            Err(p) => problems.extend(p),
+        }
+    }
     match design {
         Ok(mut design) if problems.is_empty() => {
+            design.ground = ground;
             // The drillable-cant rule of `[limits]` is also checked by the analysis.
             design.max_cant_rad = optimizer.limits.max_total_cant_rad;
             Ok(Layout { design, optimizer })
